@@ -1,0 +1,397 @@
+"""analyse: a question and a table's profile in, mentions out.
+
+Mentions become the grammar's atoms: columns, cell values, numbers, dates and operators, each
+with the span of the question it stands on (or none: a floating atom) and how good the match is.
+The lexicon is permissive on purpose — any column can fill a column slot — and features say how
+much each reading should be trusted.
+"""
+
+from __future__ import annotations
+
+import datetime
+from collections import defaultdict
+from dataclasses import dataclass, field
+
+from rapidfuzz import fuzz
+
+from .errors import QuestionError
+from .load import ROW, TABLE, Column, Table
+from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
+from .text import DateMention, Words, normalise, read_question, split_words, stem
+
+MAX_QUESTION = 2000      # characters; longer questions are cut, and the result says so
+MAX_NGRAM = 6
+FLOATING_VALUES = 12     # a column with at most this many values offers them without a mention
+OPERATORS = {
+    "CMP": ("gt", "lt", "ge", "le"), "AGG": ("sum", "avg", "min", "max", "median"),
+    "DIR": ("max", "min"), "POS": ("first", "last"), "STEP": ("next", "prev"),
+    "COUNT": ("count",), "COUNTD": ("count_distinct",), "DISTINCT": ("distinct",),
+    "NOT": ("not",), "OR": ("or",), "MISSING": ("missing",), "PRESENT": ("present",),
+    "ALL": ("all",), "YESNO": ("yes_no",), "GROUP": ("group",),
+}
+
+
+@dataclass(frozen=True)
+class Atom:
+    """One reading of a piece of the question, ready to fill a grammar slot."""
+
+    slot: str
+    value: object                      # a column name, (column, value), a number, a date …
+    span: tuple[int, int] | None = None
+    quality: str = ""                  # exact / stem / partial / fuzzy / synonym / floating / none
+    covers: int = 0                    # content words of the question this reading accounts for
+
+
+@dataclass
+class Analysis:
+    words: Words
+    table: Table
+    atoms: dict[str, list[Atom]]
+    col_match: dict[str, str]          # column name → how the question mentions it
+    content: frozenset[int]            # token positions that carry content
+    grams: tuple[str, ...]             # stemmed unigrams and bigrams, for lexical features
+    qtype: str                         # how_many, how_much, who, which, what, when, where, yes_no …
+    truncated: bool = False
+    spans: dict = field(default_factory=dict)   # column name → span of its mention
+
+
+def analyse(question: str, table: Table) -> Analysis:
+    """Find every reading of the question's words against this table."""
+    text = question.replace("\x00", " ").strip()
+    if not text or not any(ch.isalnum() for ch in text):
+        raise QuestionError("the question is empty: ask something about the table")
+    truncated = len(text) > MAX_QUESTION
+    words = read_question(text[:MAX_QUESTION])
+    content = set(_content_tokens(words, table))
+    atoms: dict[str, list[Atom]] = defaultdict(list)
+    col_match, spans = _column_mentions(words, table, content, atoms)
+    _value_mentions(words, table, content, col_match, spans, atoms)
+    _number_mentions(words, table, content, atoms)
+    for slot, names in OPERATORS.items():
+        atoms[slot] = [Atom(slot, name) for name in names]
+    grams = _grams(words)
+    return Analysis(words, table, dict(atoms), col_match, frozenset(content), grams,
+                    _qtype(words),
+                    truncated, spans)
+
+
+def _content_tokens(words: Words, table: Table) -> frozenset[int]:
+    title = {stem(w) for w in split_words(table.title.replace("_", " "))}
+    row_nouns = {stem(w) for w in ROW_NOUNS} | title | {w.rstrip("s") for w in title}
+    cue_stems = {stem(w) for w in CUE_WORDS}
+    return frozenset(
+        t.index for t in words.tokens
+        if not t.stop and t.stem not in cue_stems and t.stem not in row_nouns
+        and t.text not in CUE_WORDS and (t.text[0].isalnum())
+    )
+
+
+def _grams(words: Words) -> tuple[str, ...]:
+    stems = [t.stem for t in words.tokens if t.text[0].isalnum() or t.text == "n't"]
+    grams = set(stems) | {f"{a} {b}" for a, b in zip(stems, stems[1:])}
+    grams |= {f"{a} {b} {c}" for a, b, c in zip(stems, stems[1:], stems[2:])}
+    return tuple(sorted(grams))
+
+
+def _qtype(words: Words) -> str:
+    texts = [t.text for t in words.tokens]
+    joined = " ".join(texts)
+    if "how many" in joined or joined.startswith("number of") or texts[:1] == ["count"]:
+        return "how_many"
+    if "how much" in joined or "how long" in joined or "how old" in joined:
+        return "how_much"
+    first = texts[0] if texts else ""
+    if first in {"is", "are", "was", "were", "did", "does", "do", "has", "have", "had", "can"}:
+        return "yes_no"
+    for wh in ("who", "when", "where", "which", "what"):
+        if wh in texts[:4]:
+            return wh
+    if first in {"list", "name", "show", "give"}:
+        return "list"
+    return "other"
+
+
+# ── columns ───────────────────────────────────────────────────────────────────────────────────
+UNIT_WORDS = {"mm", "cm", "m", "km", "g", "kg", "lb", "lbs", "eur", "usd", "gbp", "pct", "min",
+              "mins", "sec", "s", "h", "hrs", "no", "num", "number", "the", "of", "a", "in",
+              "total", "amount", "value"}
+
+
+def _column_mentions(words, table, content, atoms):
+    stems = [t.stem for t in words.tokens]
+    found = {col.name: _match_header(_header_words(col), stems, words) for col in table.columns}
+    # a comparative or a synonym that names a column is content, though it looks like a cue
+    content |= {i for quality, span in found.values() if span and quality == "synonym"
+                for i in range(*span)}
+    col_match = {name: quality for name, (quality, _) in found.items()}
+    spans = {name: span for name, (_, span) in found.items() if span}
+    for col in table.columns:
+        span = spans.get(col.name)
+        covers = sum(1 for i in range(*span) if i in content) if span else 0
+        for slot in _slots(col, table):
+            atoms[slot].append(Atom(slot, col.name, span, col_match[col.name], covers))
+    return col_match, spans
+
+
+def _header_words(col: Column) -> tuple[list[str], set[str]]:
+    """The stems of a header, and those of them that must be said for an exact mention."""
+    words = split_words(col.header.replace("_", " ")) or split_words(col.base.replace("_", " "))
+    stems = [stem(w) for w in words]
+    core = {stem(w) for w in words if w not in UNIT_WORDS} or set(stems)
+    return stems, core
+
+
+def _match_header(header: tuple[list[str], set[str]], stems: list[str], words: Words):
+    """The best mention of a header in the question: (quality, span).
+
+    The longest run of question words that are all header words wins; it is exact when it
+    says every header word but units ("bill length" for "bill_length_mm").
+    """
+    all_stems, core = header
+    best_run = None
+    i = 0
+    while i < len(stems):
+        j = i
+        while j < len(stems) and stems[j] in all_stems and not (
+                words.tokens[j].stop and stems[j] not in core):
+            j += 1
+        said = {stems[k] for k in range(i, j)} & core
+        if said and (best_run is None or len(said) > best_run[0]):
+            best_run = (len(said), (i, j), said == core)
+        i = max(j, i + 1)
+    if best_run:
+        return ("exact" if best_run[2] else "partial"), best_run[1]
+    for i, s in enumerate(stems):
+        if words.tokens[i].stop or not s[0].isalnum():
+            continue
+        base = _degree_base(words.tokens[i].text)
+        if any(h in SYNONYMS.get(s, ()) or (base and (h == base or h in SYNONYMS.get(base, ())))
+               for h in core):
+            return "synonym", (i, i + 1)
+    for i, s in enumerate(stems):
+        if len(s) >= 4 and not words.tokens[i].stop and any(
+                len(h) >= 4 and fuzz.ratio(s, h) >= 84 for h in core):
+            return "fuzzy", (i, i + 1)
+    return "none", None
+
+
+def _degree_base(word: str) -> str | None:
+    """The stem under a comparative or superlative: heaviest → heavi, longer → long."""
+    for suffix, repl in (("iest", "i"), ("ier", "i"), ("est", ""), ("er", "")):
+        if word.endswith(suffix) and len(word) - len(suffix) >= 3:
+            root = word[: -len(suffix)] + repl
+            if len(root) >= 4 and root[-1] == root[-2] and root[-1] not in "aeiousl":
+                root = root[:-1]   # biggest → big
+            return stem(root)
+    return None
+
+
+def _slots(col: Column, table: Table) -> list[str]:
+    slots = []
+    if col.view is None:
+        slots.append("ANYCOL")
+    if col.kind == "number":
+        slots += ["NUMCOL", "ORDCOL"]
+        if col.integer and col.view is None and 1 < col.distinct <= 20:
+            slots.append("KEYCOL")
+    elif col.kind == "date":
+        slots += ["DATECOL", "ORDCOL"]
+    elif col.distinct < max(table.row_count, 2) or table.row_count <= 1:
+        slots.append("KEYCOL")
+    return slots
+
+
+# ── cell values ───────────────────────────────────────────────────────────────────────────────
+def _value_index(table: Table) -> dict:
+    """Per table, once: normalised cell text and its stems → (column, value)."""
+    if "value_index" in table.cache:
+        return table.cache["value_index"]
+    exact: dict[str, list] = defaultdict(list)
+    by_stem: dict[str, list] = defaultdict(list)
+    by_word: dict[str, list] = defaultdict(list)
+    for col in table.columns:
+        if col.kind not in ("text", "bool") or col.view is not None:
+            continue
+        for value in col.values:
+            norm = normalise(str(value))
+            if not norm:
+                continue
+            exact[norm].append((col.name, value))
+            vstems = tuple(stem(w) for w in split_words(norm))
+            if vstems:
+                by_stem[" ".join(vstems)].append((col.name, value))
+                for w in set(vstems):
+                    by_word[w].append((col.name, value, vstems))
+    index = {"exact": exact, "stem": by_stem, "word": by_word}
+    table.cache["value_index"] = index
+    return index
+
+
+def _value_mentions(words, table, content, col_match, col_spans, atoms):
+    index = _value_index(table)
+    tokens = words.tokens
+    found: dict[tuple, Atom] = {}
+
+    def add(slot, value, span, quality):
+        covers = sum(1 for i in range(*span) if i in content)
+        key = (slot, value)
+        old = found.get(key)
+        rank = ("exact", "stem", "partial", "fuzzy", "quoted")
+        if old is None or (covers, -rank.index(quality) if quality in rank else 0) > (
+                old.covers, -rank.index(old.quality) if old.quality in rank else 0):
+            found[key] = Atom(slot, value, span, quality, covers)
+
+    for text, at in words.quoted:
+        for col, value in index["exact"].get(normalise(text), []):
+            add("ENTITY", (col, value), (at, at + 1), "exact")
+        for col in table.columns:
+            if col.kind == "text" and col.view is None:
+                add("CONTAINS", (col.name, text), (at, at + 1), "quoted")
+    for i in range(len(tokens)):
+        for j in range(i + 1, min(len(tokens), i + MAX_NGRAM) + 1):
+            span_tokens = tokens[i:j]
+            if not any(k in content for k in range(i, j)) and j - i == 1 and tokens[i].stop:
+                continue
+            if not any(t.text[0].isalnum() for t in span_tokens):
+                continue
+            phrase = " ".join(t.text for t in span_tokens)
+            stems = " ".join(t.stem for t in span_tokens if t.text[0].isalnum())
+            hits = index["exact"].get(phrase) or index["exact"].get(phrase.replace(" - ", "-"))
+            for col, value in hits or []:
+                add("ENTITY", (col, value), (i, j), "exact")
+            if not hits:
+                for col, value in index["stem"].get(stems, []):
+                    add("ENTITY", (col, value), (i, j), "stem")
+            _partial(index, span_tokens, stems, (i, j), content, add)
+    _fuzzy(index, tokens, content, found, add)
+    _with_column_words(found, col_spans, content)
+    _floating(table, found, col_match, col_spans, content, atoms)
+    for atom in found.values():
+        atoms[atom.slot].append(atom)
+
+
+def _with_column_words(found, col_spans, content):
+    """"dream island": the value and its column's name side by side are one mention."""
+    for key, atom in list(found.items()):
+        if atom.slot != "ENTITY" or atom.span is None:
+            continue
+        span = col_spans.get(atom.value[0])
+        if span and (0 <= span[0] - atom.span[1] <= 1 or 0 <= atom.span[0] - span[1] <= 1):
+            start, end = min(span[0], atom.span[0]), max(span[1], atom.span[1])
+            covers = sum(1 for i in range(start, end) if i in content)
+            found[key + ("+col",)] = Atom("ENTITY", atom.value, (start, end), atom.quality,
+                                          covers)
+
+
+def _partial(index, span_tokens, stems, span, content, add):
+    """A phrase inside a longer cell: "derboven" in "Willy Derboven (BEL)"."""
+    parts = stems.split()
+    if not parts or not any(k in content for k in range(*span)):
+        return
+    candidates = index["word"].get(parts[0], [])
+    if len(candidates) > 200:   # a very common word says little
+        return
+    text = " ".join(t.text for t in span_tokens)
+    for col, value, vstems in candidates:
+        n = len(parts)
+        if len(vstems) > n and any(list(vstems[k:k + n]) == parts for k in range(len(vstems))):
+            add("ENTITY", (col, value), span, "partial")
+            add("CONTAINS", (col, text), span, "partial")
+
+
+def _fuzzy(index, tokens, content, found, add):
+    """Misspelt or differently written cell values, only for words nothing else explained."""
+    taken = {i for a in found.values() if a.span for i in range(*a.span)}
+    values = index["exact"]
+    if len(values) > 20000:
+        return
+    keys = list(values)
+    for i in range(len(tokens)):
+        for j in (i + 1, i + 2, i + 3):
+            if j > len(tokens) or not all(k in content and k not in taken for k in range(i, j)):
+                continue
+            phrase = " ".join(t.text for t in tokens[i:j])
+            if len(phrase) < 4:
+                continue
+            for key in keys:
+                if abs(len(key) - len(phrase)) <= 3 and fuzz.ratio(phrase, key) >= 85:
+                    for col, value in values[key]:
+                        add("ENTITY", (col, value), (i, j), "fuzzy")
+
+
+def _floating(table, found, col_match, col_spans, content, atoms):
+    """Values of small columns, offered without a mention of the value.
+
+    When the column is named ("refunded" → refunded = yes) the value stands on that name, so
+    the same words cannot also be read as the column elsewhere in the form.
+    """
+    anchored = {a.value for a in found.values() if a.slot == "ENTITY"}
+    for col in table.columns:
+        if col.view is not None or col.kind not in ("text", "bool"):
+            continue
+        if not 1 < col.distinct <= FLOATING_VALUES or col.distinct >= table.row_count:
+            continue
+        for value in col.values:
+            if (col.name, value) not in anchored:
+                span = col_spans.get(col.name)
+                quality = "floating+col" if span else "floating"
+                covers = sum(1 for i in range(*span) if i in content) if span else 0
+                atoms["ENTITY"].append(Atom("ENTITY", (col.name, _typed(col, value)), span,
+                                            quality, covers))
+
+
+def _typed(col: Column, value):
+    if col.kind == "bool":
+        return {"true": True, "false": False}.get(str(value).lower(), value)
+    return value
+
+
+# ── numbers and dates ─────────────────────────────────────────────────────────────────────────
+def _number_mentions(words, table, content, atoms):
+    for number in words.numbers:
+        span = (number.start, number.end)
+        atoms["NUMBER"].append(Atom("NUMBER", number.value, span, "ordinal" if number.ordinal
+                                    else "number", 1))
+        for col in table.columns:
+            if col.kind == "number" and _has_value(table, col, number.value):
+                atoms["ENTITY"].append(Atom("ENTITY", (col.name, _num(number.value)), span,
+                                            "number", 1))
+    for date in words.dates:
+        span = (date.start, date.end)
+        if date.day and date.month and date.year:
+            atoms["DATE"].append(Atom("DATE", date, span, "date", 1))
+            for col in table.columns:
+                if col.kind == "date":
+                    atoms["ENTITY"].append(Atom("ENTITY", (col.name, _as_date(date)), span,
+                                                "date", 1))
+        elif date.year and not date.month:
+            atoms["DATE"].append(Atom("DATE", date, span, "year", 1))
+            atoms["PERIOD"].append(Atom("PERIOD", date, span, "year", 1))
+        elif date.month:
+            atoms["PERIOD"].append(Atom("PERIOD", date, span, "month", span[1] - span[0]))
+
+
+def _num(value: float):
+    return int(value) if float(value).is_integer() else value
+
+
+def _as_date(date: DateMention) -> datetime.date | None:
+    try:
+        return datetime.date(date.year, date.month, date.day)
+    except (TypeError, ValueError):
+        return None
+
+
+def _has_value(table: Table, col: Column, value: float) -> bool:
+    if col.minimum is None or not (col.minimum <= value <= col.maximum):
+        return False
+    key = ("has", col.name, value)
+    if key not in table.cache:
+        ident = '"' + col.name.replace('"', '""') + '"'
+        found = table.con.execute(
+            f'SELECT 1 FROM "{TABLE}" WHERE {ident} = ? LIMIT 1', [value]).fetchone()
+        table.cache[key] = found is not None
+    return table.cache[key]
+
+
+__all__ = ["Analysis", "Atom", "analyse", "ROW"]

@@ -1,0 +1,519 @@
+"""derive: atoms of the question + the grammar → scored candidate logical forms.
+
+The rules come from `grammar/question.lark` (lark compiles the file; we read its rules). A chart
+builds forms bottom-up by size: an item of size s applies one rule to atoms and to items whose
+sizes sum to s − 1. Every (category, size) cell keeps only its best `beam` items by model score,
+so the number of forms stays bounded however permissive the rules are — nothing is enumerated.
+Each rule's alias names a builder below that makes the logical form, or refuses an ill-typed one.
+"""
+
+from __future__ import annotations
+
+import datetime
+import itertools
+from collections.abc import Callable
+from dataclasses import dataclass
+from functools import lru_cache
+
+from lark import Lark
+
+from . import logic as L
+from .analyse import Analysis, Atom
+from .features import NODE_FEATURES, ROOT_FEATURES, Step, fragments, lexical, lexical_column
+from .features import lexical_value
+from .model import Model
+
+MAX_SIZE = 6
+ROW_BEAM = 40
+ANSWER_BEAM = 120
+SLOT_LIMIT = 10          # atoms per slot tried in one rule (the best-scoring ones)
+PAIR_BEAM = 12           # sub-forms tried on each side of a two-sided rule (and, or, difference)
+BUILD_LIMIT = 50         # forms one rule builds per size, most promising first
+COMBOS = 16              # fillings of a rule's slots tried with each choice of sub-forms
+
+
+@dataclass(frozen=True)
+class Rule:
+    category: str
+    symbols: tuple[str, ...]
+    alias: str
+
+    @property
+    def slots(self) -> list[int]:
+        return [i for i, s in enumerate(self.symbols) if s.isupper()]
+
+
+@lru_cache(maxsize=1)
+def rules() -> tuple[Rule, ...]:
+    """The composition rules of the grammar file, as lark compiles them."""
+    grammar = Lark.open("grammar/question.lark", rel_to=__file__, parser="earley")
+    found = []
+    for rule in grammar.rules:
+        if rule.alias:
+            found.append(Rule(rule.origin.name, tuple(s.name for s in rule.expansion), rule.alias))
+    missing = {r.alias for r in found} - set(BUILDERS)
+    if missing:
+        raise RuntimeError(f"grammar rules without a builder: {sorted(missing)}")
+    return tuple(found)
+
+
+@dataclass(frozen=True, eq=False)
+class Item:
+    """A form in the chart, with how it was built (for features) and its score."""
+
+    form: L.Form
+    category: str
+    size: int
+    score: float
+    step: Step
+    local: tuple[dict, ...]       # this step's feature dicts (shared lexical ones included)
+    children: tuple[Item, ...]
+    used: frozenset[int]          # question tokens its atoms stand on
+    columns: frozenset[str]
+
+    def features(self) -> dict[str, float]:
+        """φ of the whole form: the sum of its steps' features."""
+        total: dict[str, float] = {}
+        stack = [self]
+        while stack:
+            item = stack.pop()
+            for part in item.local:
+                for name, value in part.items():
+                    total[name] = total.get(name, 0.0) + value
+            stack.extend(item.children)
+        return total
+
+
+def derive(analysis: Analysis, model: Model, max_size: int = MAX_SIZE,
+           row_beam: int = ROW_BEAM, answer_beam: int = ANSWER_BEAM) -> list[Item]:
+    """The best candidate answer forms, best first, each with its features and score."""
+    chart: dict[tuple[str, int], list[Item]] = {}
+    scorer = _Scorer(analysis, model)
+    scores = _atom_scores(analysis, scorer)
+    combos = {rule: _combos(rule, analysis, scores, COMBOS if any(
+        not s.isupper() for s in rule.symbols) else COMBOS * 8) for rule in rules()}
+    for size in range(1, max_size + 1):
+        for rule in rules():
+            kids = [s for s in rule.symbols if not s.isupper()]
+            if len(kids) > size - 1 or (not kids and size != 1):
+                continue
+            for sizes in _splits(size - 1, len(kids)):
+                accepts = ACCEPTS.get(rule.alias, lambda form: True)
+                width = PAIR_BEAM if len(kids) > 1 else row_beam
+                cells = [[i for i in chart.get((k, s), []) if accepts(i.form)][:width]
+                         for k, s in zip(kids, sizes)]
+                if any(not c for c in cells):
+                    continue
+                for item in _apply(rule, combos[rule], cells, scorer, size):
+                    chart.setdefault((rule.category, size), []).append(item)
+        for category, beam in (("rows", row_beam), ("answer", answer_beam)):
+            cell = chart.get((category, size))
+            if cell:
+                chart[(category, size)] = _prune(cell, beam)
+    answers = [item for (cat, _), cell in chart.items() if cat == "answer" for item in cell]
+    finals = []
+    for item in answers:
+        root = {}
+        for fn in ROOT_FEATURES:
+            root.update(fn(analysis, item.used))
+        finals.append(_with_root(item, root, model))
+    return _prune(finals, len(finals))
+
+
+def _with_root(item: Item, root: dict, model: Model) -> Item:
+    return Item(item.form, item.category, item.size, item.score + model.score(root),
+                item.step, item.local + (root,), item.children, item.used, item.columns)
+
+
+def _prune(items: list[Item], beam: int) -> list[Item]:
+    best: dict[L.Form, Item] = {}
+    for item in items:
+        old = best.get(item.form)
+        if old is None or item.score > old.score:
+            best[item.form] = item
+    return sorted(best.values(), key=lambda i: (-i.score, i.size))[:beam]
+
+
+def _splits(total: int, parts: int):
+    if parts == 0:
+        if total == 0:
+            yield ()
+        return
+    if parts == 1:
+        yield (total,)
+        return
+    for first in range(1, total):
+        for rest in _splits(total - first, parts - 1):
+            yield (first, *rest)
+
+
+class _Scorer:
+    """Scores of features, cached for one question (the same lexical pairs recur everywhere)."""
+
+    def __init__(self, analysis: Analysis, model: Model):
+        self.analysis, self.model = analysis, model
+        self.cache: dict[int, float] = {}
+
+    def score(self, feats: dict) -> float:
+        key = id(feats)
+        if key not in self.cache or self.cache[key][1] is not feats:
+            self.cache[key] = (self.model.score(feats), feats)
+        return self.cache[key][0]
+
+
+def _atom_parts(analysis: Analysis, atom: Atom) -> list[dict]:
+    parts = []
+    if atom.slot.endswith("COL"):
+        parts.append(lexical_column(analysis, atom.value))
+    elif atom.slot == "ENTITY" and atom.span is None:
+        parts.append(lexical_value(analysis, *atom.value))
+    return parts
+
+
+OPERATOR_FRAGMENTS = {"AGG": ("{}",), "DIR": ("dir:{}", "extreme:{}"), "CMP": ("cmp:{}",),
+                      "POS": ("{}",), "STEP": ("{}",)}
+
+
+def _atom_scores(analysis: Analysis, scorer: _Scorer) -> dict[Atom, float]:
+    """What each atom scores alone: the order in which the chart tries them."""
+    scores = {}
+    for slot, atoms in analysis.atoms.items():
+        for atom in atoms:
+            if slot in OPERATOR_FRAGMENTS:
+                scores[atom] = max(scorer.score(lexical(analysis, f.format(atom.value)))
+                                   for f in OPERATOR_FRAGMENTS[slot])
+                continue
+            step = Step("probe", (atom,), ())
+            feats: dict = {}
+            for fn in NODE_FEATURES:
+                feats.update(fn(analysis, step))
+            scores[atom] = scorer.model.score(feats) + sum(
+                scorer.score(p) for p in _atom_parts(analysis, atom))
+    return scores
+
+
+def _combos(rule: Rule, analysis: Analysis, scores: dict[Atom, float], limit: int):
+    """The rule's best `limit` fillings of its slots, atoms on disjoint spans."""
+    lists = []
+    for symbol in rule.symbols:
+        if symbol.isupper():
+            atoms = sorted(analysis.atoms.get(symbol, []), key=lambda a: -scores[a])
+            lists.append(atoms[:SLOT_LIMIT * 2 if symbol == "ENTITY" else SLOT_LIMIT])
+    found = []
+    for atoms in itertools.product(*lists):
+        spans: set[int] = set()
+        for atom in atoms:
+            if atom.span:
+                tokens = set(range(*atom.span))
+                if tokens & spans:
+                    break
+                spans |= tokens
+        else:
+            found.append((sum(scores[a] for a in atoms), atoms, frozenset(spans)))
+    found.sort(key=lambda c: -c[0])
+    return found[:limit]
+
+
+def _apply(rule: Rule, combos, cells: list[list[Item]], scorer: _Scorer, size: int):
+    """Build the rule's most promising forms: best sub-forms with best slot fillings first."""
+    analysis = scorer.analysis
+    builder = BUILDERS[rule.alias]
+    plans = []
+    for kids in itertools.product(*cells):
+        used = frozenset()
+        for kid in kids:
+            if used & kid.used:
+                break
+            used |= kid.used
+        else:
+            base = sum(k.score for k in kids)
+            plans.extend((base + est, kids, atoms, used | spans)
+                         for est, atoms, spans in combos if not spans & used)
+    plans.sort(key=lambda p: -p[0])
+    built = 0
+    for _, kids, atoms, used in plans:
+        item = _build(rule, builder, analysis, scorer, atoms, kids, size)
+        if item is not None:
+            yield Item(item.form, item.category, size, item.score, item.step, item.local, kids,
+                       used, item.columns)
+            built += 1
+            if built >= BUILD_LIMIT:
+                return
+
+
+def _build(rule, builder, analysis, scorer, atoms, kids, size) -> Item | None:
+    form = builder(analysis, *_args(rule, atoms, kids))
+    if form is None:
+        return None
+    step = Step(rule.alias, atoms, tuple(k.columns for k in kids), tuple(k.form for k in kids))
+    plain: dict = {}
+    for fn in NODE_FEATURES:
+        for name, value in fn(analysis, step).items():
+            plain[name] = plain.get(name, 0.0) + value
+    shared = (*(lexical(analysis, f) for f in fragments(step)),
+              *(p for a in atoms for p in _atom_parts(analysis, a)))
+    score = sum(k.score for k in kids) + sum(scorer.score(p) for p in shared) + (
+        scorer.model.score(plain))
+    columns = frozenset().union(*(k.columns for k in kids)) | {
+        c for a in atoms for c in _atom_columns(a)}
+    return Item(form, rule.category, size, score, step, (plain, *shared), kids, frozenset(),
+                columns)
+
+
+def _atom_columns(atom: Atom) -> tuple[str, ...]:
+    if atom.slot.endswith("COL"):
+        return (atom.value,)
+    if atom.slot in ("ENTITY", "CONTAINS"):
+        return (atom.value[0],)
+    return ()
+
+
+def _args(rule: Rule, atoms: tuple[Atom, ...], kids: tuple[Item, ...]) -> list:
+    args, a, k = [], iter(atoms), iter(kids)
+    for symbol in rule.symbols:
+        args.append(next(a).value if symbol.isupper() else next(k).form)
+    return args
+
+
+# ── builders: one per rule alias ──────────────────────────────────────────────────────────────
+Builder = Callable[..., "L.Form | None"]
+BUILDERS: dict[str, Builder] = {}
+
+
+def builder(fn: Builder) -> Builder:
+    BUILDERS[fn.__name__] = fn
+    return fn
+
+
+def _simple(rows: L.Rows) -> bool:
+    """A row set picked by one condition on cells (not by position or by another set)."""
+    return isinstance(rows, (L.Eq, L.Cmp, L.Between, L.Contains, L.Missing, L.Period))
+
+
+def _scoped(rows: L.Rows) -> bool:
+    return not isinstance(rows, (L.Extreme, L.Position, L.Neighbour))
+
+
+@builder
+def all_rows(a, _):
+    return L.All()
+
+
+@builder
+def has_value(a, entity):
+    col, value = entity
+    return None if value is None else L.Eq(col, value)
+
+
+@builder
+def contains(a, entity):
+    return L.Contains(*entity)
+
+
+@builder
+def compare(a, col, op, number):
+    return L.Cmp(col, op, number)
+
+
+@builder
+def compare_date(a, col, op, date):
+    if date.day and date.month and date.year:
+        try:
+            value = datetime.date(date.year, date.month, date.day)
+        except ValueError:
+            return None
+    elif date.year and not date.month:   # "after 2019" is after the end of 2019
+        value = datetime.date(date.year, 12, 31) if op in ("gt", "le") else datetime.date(
+            date.year, 1, 1)
+    else:
+        return None
+    return L.Cmp(col, op, value)
+
+
+@builder
+def between(a, col, low, high):
+    return L.Between(col, min(low, high), max(low, high)) if low != high else None
+
+
+@builder
+def period(a, col, date):
+    return L.Period(col, date.year, date.month)
+
+
+@builder
+def missing(a, col, _):
+    return L.Missing(col) if a.table.column(col).nulls else None
+
+
+@builder
+def present(a, col, _):
+    return L.Not(L.Missing(col)) if a.table.column(col).nulls else None
+
+
+@builder
+def both(a, left, right):
+    if isinstance(left, L.All) or isinstance(right, L.All) or left == right:
+        return None
+    if isinstance(left, L.Eq) and isinstance(right, L.Eq) and left.col == right.col:
+        return None
+    if not (_scoped(left) and _scoped(right)):
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.And(left, right)
+
+
+@builder
+def either(a, left, _, right):
+    if not (_simple(left) and _simple(right)) or left == right:
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.Or(left, right)
+
+
+@builder
+def negate(a, _, rows):
+    return L.Not(rows) if _simple(rows) and not isinstance(rows, L.Missing) else None
+
+
+@builder
+def extreme(a, rows, col, direction):
+    if not _scoped(rows):
+        return None
+    return L.Extreme(rows, col, direction)
+
+
+@builder
+def position(a, rows, which):
+    return L.Position(rows, which) if _scoped(rows) else None
+
+
+@builder
+def neighbour(a, rows, step):
+    if isinstance(rows, (L.All, L.Neighbour)):
+        return None
+    return L.Neighbour(rows, step)
+
+
+def _filters_on(rows: L.Rows, col: str) -> bool:
+    return isinstance(rows, L.Eq) and rows.col == col
+
+
+@builder
+def values(a, col, rows):
+    return None if _filters_on(rows, col) else L.Values(col, rows)
+
+
+@builder
+def distinct(a, col, rows, _):
+    if _filters_on(rows, col) or a.table.column(col).distinct >= max(a.table.row_count, 2):
+        return None
+    return L.Distinct(col, rows)
+
+
+@builder
+def count(a, _, rows):
+    return L.Aggregate("count", None, rows)
+
+
+@builder
+def count_distinct(a, _, col, rows):
+    return None if _filters_on(rows, col) else L.Aggregate("count_distinct", col, rows)
+
+
+@builder
+def aggregate(a, fn, col, rows):
+    return L.Aggregate(fn, col, rows)
+
+
+def _pair(left: L.Rows, right: L.Rows) -> bool:
+    return _simple(left) and _simple(right) and left != right
+
+
+@builder
+def count_difference(a, _, left, right):
+    if not _pair(left, right):
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.Difference(L.Aggregate("count", None, left), L.Aggregate("count", None, right))
+
+
+@builder
+def aggregate_difference(a, fn, col, left, right):
+    if not _pair(left, right) or fn == "median":
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.Difference(L.Aggregate(fn, col, left), L.Aggregate(fn, col, right))
+
+
+def _two(first, second):
+    (c1, v1), (c2, v2) = first, second
+    if c1 != c2 or v1 == v2:
+        return None
+    return (c1, *sorted((v1, v2), key=str))
+
+
+@builder
+def which_of_count(a, first, second, _, direction):
+    pair = _two(first, second)
+    return pair and L.WhichOf(pair[0], pair[1], pair[2], "count", None, direction)
+
+
+@builder
+def which_of_value(a, first, second, col, direction):
+    pair = _two(first, second)
+    if not pair or pair[0] == col:
+        return None
+    return L.WhichOf(pair[0], pair[1], pair[2], "sum", col, direction)
+
+
+@builder
+def which_of_position(a, first, second, which):
+    pair = _two(first, second)
+    direction = "min" if which == "first" else "max"
+    return pair and L.WhichOf(pair[0], pair[1], pair[2], "min", "__row", direction)
+
+
+@builder
+def group_best_count(a, key, _, rows, direction):
+    return None if _filters_on(rows, key) else L.GroupBest(key, "count", None, rows, direction)
+
+
+@builder
+def group_best(a, key, fn, col, rows, direction):
+    if key == col or _filters_on(rows, key):
+        return None
+    return L.GroupBest(key, fn, col, rows, direction)
+
+
+@builder
+def top_n(a, col, n, rows, by, direction):
+    if not float(n).is_integer() or not 2 <= n <= 100 or not _scoped(rows):
+        return None
+    return L.TopN(col, int(n), rows, by, direction)
+
+
+@builder
+def yes_no(a, _, rows):
+    return None if isinstance(rows, L.All) else L.YesNo(rows)
+
+
+@builder
+def per_group_count(a, key, _, rows, __):
+    return None if _filters_on(rows, key) else L.GroupTable(key, "count", None, rows)
+
+
+@builder
+def per_group(a, key, fn, col, rows, _):
+    if key == col or _filters_on(rows, key):
+        return None
+    return L.GroupTable(key, fn, col, rows)
+
+
+# What sub-forms a rule can take at all: filtering before combining keeps the chart small.
+ACCEPTS: dict[str, Callable[[L.Form], bool]] = {
+    "both": lambda f: _scoped(f) and not isinstance(f, L.All),
+    "either": _simple, "negate": _simple, "count_difference": _simple,
+    "aggregate_difference": _simple, "extreme": _scoped, "position": _scoped,
+    "neighbour": lambda f: not isinstance(f, (L.All, L.Neighbour)),
+    "yes_no": lambda f: not isinstance(f, L.All), "top_n": _scoped,
+}

@@ -1,0 +1,255 @@
+"""φ: the features of a (question, logical form, answer) triple, as small registered functions.
+
+Three tables of pure functions:
+- NODE_FEATURES see one composition step (a grammar rule applied to atoms and sub-forms);
+  a form's features are the sum over its steps, so the beam can score partial forms.
+- ROOT_FEATURES see a whole candidate (what it leaves unexplained in the question).
+- ANSWER_FEATURES see the executed answer (its size and type against the question word).
+Lexical pairs — a question word or phrase with a fragment of the form — are the lexicon that
+learning fills in and `tabq lexicon export` writes out; keep their names readable.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+
+from .analyse import Analysis, Atom
+from .answers import Denotation
+
+Features = dict[str, float]
+NODE_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
+ROOT_FEATURES: list[Callable[[Analysis, frozenset[int]], Features]] = []
+ANSWER_FEATURES: list[Callable[[Analysis, Denotation], Features]] = []
+
+# The role a column plays, by the rule that uses it (see grammar/question.lark).
+ROLES = {
+    "values": "values", "distinct": "values", "count_distinct": "values", "top_n": "values",
+    "aggregate": "measure", "aggregate_difference": "measure", "which_of_value": "measure",
+    "group_best": "key", "group_best_count": "key", "per_group": "key", "per_group_count": "key",
+    "compare": "filter", "compare_date": "filter", "between": "filter", "period": "filter",
+    "missing": "filter", "present": "filter", "extreme": "order",
+}
+OPERATOR_SLOTS = {"CMP", "AGG", "DIR", "POS", "STEP"}
+
+
+@dataclass(frozen=True)
+class Step:
+    """One application of a grammar rule: its alias, its atoms, and the columns below it."""
+
+    rule: str
+    atoms: tuple[Atom, ...]
+    child_columns: tuple[frozenset[str], ...]
+    child_forms: tuple = ()
+
+
+def node_feature(fn):
+    NODE_FEATURES.append(fn)
+    return fn
+
+
+def root_feature(fn):
+    ROOT_FEATURES.append(fn)
+    return fn
+
+
+def answer_feature(fn):
+    ANSWER_FEATURES.append(fn)
+    return fn
+
+
+def fragments(step: Step) -> list[str]:
+    """The pieces of meaning a step adds: "sum", "cmp:gt", "extreme:max", "dir:min" …"""
+    ops = {a.slot: a.value for a in step.atoms if a.slot in OPERATOR_SLOTS}
+    rule = step.rule
+    if rule in ("compare", "compare_date"):
+        return [f"cmp:{ops['CMP']}"]
+    if rule == "extreme":
+        return [f"extreme:{ops['DIR']}"]
+    if rule in ("position", "neighbour"):
+        return [ops.get("POS") or ops["STEP"]]
+    names = {"has_value": "eq", "both": "and", "either": "or", "negate": "not",
+             "count_difference": "difference", "aggregate_difference": "difference",
+             "which_of_count": "which_of", "which_of_value": "which_of",
+             "which_of_position": "which_of", "group_best_count": "group_best",
+             "per_group_count": "per_group", "aggregate": None, "all_rows": None}
+    out = [names.get(rule, rule)] if names.get(rule, rule) else []
+    if "AGG" in ops:
+        out.append(ops["AGG"])
+    if rule in ("count", "count_difference", "which_of_count", "group_best_count",
+                "per_group_count"):
+        out.append("count")
+    if "DIR" in ops:
+        out.append(f"dir:{ops['DIR']}")
+    if "POS" in ops and rule == "which_of_position":
+        out.append(ops["POS"])
+    return out
+
+
+def lexical(analysis: Analysis, fragment: str) -> Features:
+    """Every question word and phrase paired with a fragment: the learnable lexicon."""
+    cache = analysis.spans.setdefault("_lex", {})
+    if fragment not in cache:
+        feats = {f"lex:{g}|{fragment}": 1.0 for g in analysis.grams}
+        feats[f"op:{fragment}"] = 1.0
+        cache[fragment] = feats
+    return cache[fragment]
+
+
+def lexical_column(analysis: Analysis, col: str) -> Features:
+    """Question words paired with a column: how the team's words name its columns."""
+    cache = analysis.spans.setdefault("_lexcol", {})
+    if col not in cache:
+        cache[col] = {f"lexcol:{g}|{col}": 1.0 for g in analysis.grams if " " not in g}
+    return cache[col]
+
+
+def lexical_value(analysis: Analysis, col: str, value) -> Features:
+    """Question words paired with a cell value that no word names ("top grade" → grade A)."""
+    return {f"lexval:{g}|{col}={value}": 1.0 for g in analysis.grams if " " not in g}
+
+
+# ── composition steps ─────────────────────────────────────────────────────────────────────────
+@node_feature
+def size(analysis: Analysis, step: Step) -> Features:
+    return {"size": 1.0}
+
+
+@node_feature
+def column_matches(analysis: Analysis, step: Step) -> Features:
+    feats: Features = {}
+    role = ROLES.get(step.rule, "other")
+    for atom in step.atoms:
+        if atom.slot.endswith("COL"):
+            col = analysis.table.column(atom.value)
+            _add(feats, f"col:{atom.quality}")
+            _add(feats, f"{role}.col:{atom.quality}")
+            if col.view:
+                _add(feats, "col:view")
+            if _looks_like_id(col, analysis):
+                _add(feats, "col:id")
+            if atom.covers:
+                _add(feats, "cover", atom.covers)
+    return feats
+
+
+@node_feature
+def value_matches(analysis: Analysis, step: Step) -> Features:
+    feats: Features = {}
+    for atom in step.atoms:
+        if atom.slot == "ENTITY":
+            _add(feats, f"ent:{atom.quality}")
+            if atom.quality == "floating+col":
+                _add(feats, "ent:floating")
+            if atom.quality == "floating+col" and analysis.col_match.get(atom.value[0]) == "exact":
+                _add(feats, "ent:floating+col_exact")
+        elif atom.slot == "CONTAINS":
+            _add(feats, f"contains:{atom.quality}")
+        if atom.slot in ("ENTITY", "CONTAINS", "NUMBER", "DATE", "PERIOD") and atom.covers:
+            _add(feats, "cover", atom.covers)
+            if atom.quality == "quoted":
+                _add(feats, "cover:quoted")
+    return feats
+
+
+@node_feature
+def comparisons(analysis: Analysis, step: Step) -> Features:
+    if step.rule not in ("compare", "between"):
+        return {}
+    col = next(a for a in step.atoms if a.slot == "NUMCOL")
+    info = analysis.table.column(col.value)
+    feats: Features = {}
+    for atom in step.atoms:
+        if atom.slot == "NUMBER" and info.minimum is not None:
+            if not info.minimum <= atom.value <= info.maximum:
+                _add(feats, "cmp:out_of_range")
+    return feats
+
+
+SUPERLATIVES = ("extreme", "group_best", "group_best_count", "top_n", "which_of_count",
+                "which_of_value", "which_of_position")
+
+
+@node_feature
+def nesting(analysis: Analysis, step: Step) -> Features:
+    """Two superlatives in one form, or conditions stacked deep, are rarely what was asked."""
+    from .logic import Extreme, Position, walk
+    feats: Features = {}
+    if step.rule in SUPERLATIVES or step.rule == "position":
+        for form in step.child_forms:
+            if any(isinstance(n, (Extreme, Position)) for n in walk(form)):
+                _add(feats, "super:nested")
+    return feats
+
+
+@node_feature
+def repeated_columns(analysis: Analysis, step: Step) -> Features:
+    seen: set[str] = set()
+    repeats = 0
+    groups = list(step.child_columns) + [
+        frozenset([a.value]) for a in step.atoms if a.slot.endswith("COL")]
+    for cols in groups:
+        repeats += len(seen & cols)
+        seen |= cols
+    return {"col:repeated": float(repeats)} if repeats else {}
+
+
+def _looks_like_id(col, analysis: Analysis) -> bool:
+    name = col.base.lower()
+    return (name == "id" or name.endswith("_id") or name.endswith("id")) and (
+        col.distinct >= analysis.table.row_count > 3)
+
+
+def _add(feats: Features, name: str, value: float = 1.0) -> None:
+    feats[name] = feats.get(name, 0.0) + value
+
+
+# ── whole candidates ──────────────────────────────────────────────────────────────────────────
+@root_feature
+def unexplained(analysis: Analysis, used: frozenset[int]) -> Features:
+    """Numbers, dates and exact cell values the question names but the form ignores."""
+    feats: Features = {}
+    for atom in analysis.atoms.get("NUMBER", []):
+        if not set(range(*atom.span)) & used:
+            _add(feats, "num:unused")
+    for atom in analysis.atoms.get("PERIOD", []) + analysis.atoms.get("DATE", []):
+        if not set(range(*atom.span)) & used:
+            _add(feats, "date:unused")
+    seen = set()
+    for atom in analysis.atoms.get("ENTITY", []):
+        if atom.span and atom.quality == "exact" and atom.covers and atom.span not in seen:
+            seen.add(atom.span)
+            if not set(range(*atom.span)) & used:
+                _add(feats, "ent:unused")
+    return feats
+
+
+# ── answers ───────────────────────────────────────────────────────────────────────────────────
+@answer_feature
+def answer_shape(analysis: Analysis, den: Denotation) -> Features:
+    q = analysis.qtype
+    if den.error:
+        return {"den:empty": 1.0}
+    if not den.values:
+        return {"den:empty": 1.0}
+    if all(v is None for v in den.values):
+        return {"den:null": 1.0}
+    feats: Features = {f"den:{q}|{den.kind}": 1.0}
+    if len(den.values) > 1:
+        feats["den:many"] = 1.0
+        feats[f"den:{q}|many"] = 1.0
+        if len(den.values) > 20:
+            feats["den:huge"] = 1.0
+    if den.is_table:
+        feats["den:table"] = 1.0
+    return feats
+
+
+@answer_feature
+def repeats_question(analysis: Analysis, den: Denotation) -> Features:
+    """An answer that only repeats a number of the question is rarely what was asked."""
+    asked = {a.value for a in analysis.atoms.get("NUMBER", [])}
+    if len(den.values) == 1 and isinstance(den.values[0], (int, float)) and not isinstance(
+            den.values[0], bool) and float(den.values[0]) in asked:
+        return {"den:repeats_number": 1.0}
+    return {}

@@ -1,0 +1,194 @@
+"""The hand-set prior: what common English words say about a query before any teaching.
+
+A fragment is a piece of a logical form ("sum", "cmp:gt", "extreme:max"). Each has a bias (how
+plausible it is with no word asking for it) and cue phrases that ask for it. These become weights
+on the same features learning moves (`op:<fragment>` and `lex:<stems>|<fragment>`), so teaching
+starts from this prior and can overrule any of it.
+"""
+
+from __future__ import annotations
+
+from .text import split_words, stem
+
+# fragment: (bias, {cue phrase: weight})
+CUES: dict[str, tuple[float, dict[str, float]]] = {
+    "count": (-1.0, {"how many": 3.0, "number of": 2.5, "count": 2.5, "how often": 2.0,
+                     "total number": 1.0, "many": 0.5, "times": 0.5, "tally": 2.0}),
+    "count_distinct": (-2.5, {"different": 1.5, "distinct": 2.0, "unique": 2.0,
+                              "how many": 1.0, "number of": 0.8, "various": 1.0}),
+    "sum": (-1.5, {"total": 2.6, "sum": 2.6, "combined": 2.2, "altogether": 2.0,
+                   "in all": 1.5, "overall": 1.0, "how much": 1.2, "together": 1.4,
+                   "total number": -1.5, "total of": 0.6}),
+    "avg": (-1.5, {"average": 3.6, "mean": 3.3, "avg": 3.6, "typical": 1.5, "per": 0.3}),
+    "median": (-2.5, {"median": 5.0, "middle": 1.0}),
+    "min": (-1.8, {"minimum": 2.6, "lowest": 2.2, "smallest": 2.2, "least": 1.6, "min": 2.6,
+                   "shortest": 2.0, "cheapest": 2.0, "lightest": 2.0, "earliest": 1.8,
+                   "fewest": 1.5, "youngest": 1.5, "quickest": 1.6, "fastest": 1.6}),
+    "max": (-1.8, {"maximum": 2.6, "highest": 2.2, "largest": 2.2, "biggest": 2.2, "most": 1.4,
+                   "max": 2.6, "longest": 2.0, "greatest": 2.0, "heaviest": 2.0,
+                   "latest": 1.8, "top": 1.2, "priciest": 2.0, "record": 1.0, "oldest": 1.5,
+                   "tallest": 2.0, "slowest": 1.6, "costliest": 2.0, "expensive": 1.4}),
+    "values": (0.0, {"what": 0.5, "which": 0.5, "who": 0.6, "when": 0.6, "where": 0.6,
+                     "what is": 0.5, "list": 0.3, "name": 0.3, "how many": -0.8}),
+    "distinct": (-1.8, {"different": 1.6, "distinct": 2.0, "unique": 2.0, "list": 0.8,
+                        "which": 0.5, "what": 0.3, "kinds": 1.0, "types": 1.0, "all": 0.3}),
+    "difference": (-2.5, {"difference": 3.0, "how many more": 3.0, "how much more": 3.0,
+                          "more than": 0.8, "fewer than": 0.8, "less than": 0.5,
+                          "how many fewer": 3.0, "how much less": 3.0, "gap": 2.5,
+                          "between": 0.5, "than": 0.8}),
+    "which_of": (-2.0, {"or": 2.0, "which": 0.8, "who": 0.6, "more": 0.5, "first": 0.3}),
+    "group_best": (-1.3, {"which": 0.8, "who": 0.8, "what": 0.3, "most": 1.8, "fewest": 1.8,
+                          "least": 1.3, "highest": 0.8, "lowest": 0.8, "largest": 0.8,
+                          "busiest": 1.8, "popular": 1.8, "common": 1.8, "frequent": 1.8,
+                          "often": 1.5}),
+    "top_n": (-2.5, {"top": 2.8, "best": 1.0, "first": 0.3, "highest": 0.6, "largest": 0.6,
+                     "most": 0.5, "bottom": 2.0, "lowest": 0.6}),
+    "yes_no": (-3.0, {"is there": 3.5, "are there": 3.5, "was there": 3.5, "were there": 3.5,
+                      "any": 1.2, "did": 1.4, "does": 1.4, "do": 1.2, "ever": 1.0,
+                      "has": 0.8, "have": 0.6}),
+    "per_group": (-3.0, {"per": 2.8, "each": 2.4, "for each": 1.5, "by": 1.4, "breakdown": 2.5,
+                         "for every": 2.5, "grouped": 2.5, "split by": 2.0}),
+    "eq": (0.0, {}),
+    "cmp:gt": (-1.0, {"more than": 2.4, "over": 2.0, "above": 2.2, "greater than": 2.4,
+                      "higher than": 2.4, "after": 1.8, "exceeding": 2.2, "exceed": 2.0,
+                      "larger than": 2.4, "longer than": 2.4, "heavier than": 2.4,
+                      "bigger than": 2.4, "later than": 2.2, "since": 1.6, "beyond": 1.6,
+                      "older than": 2.0, "greater": 1.0, "more": 0.5, "than": 0.6}),
+    "cmp:lt": (-1.0, {"less than": 2.4, "under": 2.0, "below": 2.2, "fewer than": 2.4,
+                      "lower than": 2.4, "before": 1.8, "smaller than": 2.4,
+                      "shorter than": 2.4, "lighter than": 2.4, "cheaper than": 2.4,
+                      "earlier than": 2.2, "younger than": 2.0, "prior to": 2.2,
+                      "than": 0.6, "less": 0.5}),
+    "cmp:ge": (-1.5, {"at least": 3.0, "or more": 3.0, "minimum of": 1.5, "no less than": 3.0,
+                      "or over": 2.5, "and above": 2.5, "or above": 2.5, "from": 0.6,
+                      "onwards": 2.0, "or later": 2.5}),
+    "cmp:le": (-1.5, {"at most": 3.0, "or less": 3.0, "or fewer": 3.0, "no more than": 3.2,
+                      "up to": 2.2, "maximum of": 1.5, "or under": 2.5, "or below": 2.5,
+                      "or earlier": 2.5, "until": 1.2}),
+    "between": (-0.8, {"between": 2.5, "from": 0.6, "to": 0.3, "range": 1.0}),
+    "contains": (-1.8, {"contain": 1.5, "containing": 1.5, "contains": 1.5, "include": 1.0,
+                        "including": 0.8, "with": 0.2, "mention": 1.0, "word": 1.0}),
+    "missing": (-3.0, {"missing": 3.5, "unknown": 3.0, "blank": 3.0, "empty": 3.0,
+                       "null": 3.5, "not recorded": 3.0, "no value": 3.0, "without": 1.2,
+                       "not known": 3.0, "unrecorded": 3.0, "lack": 1.5, "lacking": 1.5}),
+    "present": (-3.0, {"known": 2.0, "recorded": 2.0, "with a": 0.5, "have a": 0.8}),
+    "period": (0.5, {"in": 0.5, "during": 0.8, "of": 0.2}),
+    "and": (-0.3, {}),
+    "or": (-1.5, {"or": 2.2, "either": 1.5}),
+    "not": (-2.5, {"not": 3.0, "n't": 3.0, "except": 3.0, "other than": 3.0, "excluding": 3.0,
+                   "without": 1.5, "non": 2.5, "never": 2.0, "no": 0.8, "besides": 2.0,
+                   "apart from": 2.5, "aside from": 2.5, "isn't": 3.0, "wasn't": 3.0,
+                   "weren't": 3.0, "aren't": 3.0, "didn't": 3.0, "doesn't": 3.0}),
+    "extreme:max": (-1.8, {"most": 2.0, "highest": 2.4, "largest": 2.4, "biggest": 2.4,
+                           "maximum": 2.2, "longest": 2.4, "greatest": 2.4, "heaviest": 2.4,
+                           "top": 1.6, "best": 1.4, "latest": 1.8, "last": 0.5, "max": 2.2,
+                           "tallest": 2.4, "oldest": 1.2, "priciest": 2.4, "expensive": 2.0,
+                           "more": 0.5, "record": 0.8, "slowest": 2.0, "costliest": 2.4,
+                           "recent": 1.8, "newest": 1.8}),
+    "extreme:min": (-1.8, {"least": 2.0, "lowest": 2.4, "smallest": 2.4, "minimum": 2.2,
+                           "shortest": 2.4, "fewest": 2.4, "lightest": 2.4, "cheapest": 2.4,
+                           "earliest": 2.2, "worst": 1.0, "min": 2.2, "youngest": 1.2,
+                           "quickest": 2.4, "fastest": 2.2, "first": 0.4, "less": 0.5,
+                           "soonest": 2.0}),
+    "first": (-2.0, {"first": 2.6, "earliest": 1.0, "top": 0.8, "opening": 1.5,
+                     "begin": 1.0, "start": 1.0, "initial": 2.0}),
+    "last": (-2.0, {"last": 2.6, "final": 2.6, "latest": 1.0, "bottom": 1.2, "end": 0.8,
+                    "most recent": 1.0}),
+    "next": (-2.5, {"after": 2.2, "next": 2.8, "following": 2.6, "below": 1.4, "then": 1.0,
+                    "succeeded": 2.0, "right after": 2.0}),
+    "prev": (-2.5, {"before": 2.2, "previous": 2.8, "preceding": 2.6, "above": 1.4,
+                    "prior": 2.0, "preceded": 2.0, "right before": 2.0}),
+    "dir:max": (0.0, {"most": 1.5, "highest": 1.5, "largest": 1.5, "biggest": 1.5,
+                      "more": 1.0, "maximum": 1.2, "top": 1.2, "best": 1.0, "greatest": 1.5,
+                      "longest": 1.5, "heaviest": 1.5, "busiest": 1.5, "popular": 1.5,
+                      "common": 1.2, "frequent": 1.2, "often": 1.0, "expensive": 1.2,
+                      "later": 1.0, "last": 0.8, "latest": 1.2, "oldest": 0.6, "recent": 1.2,
+                      "tallest": 1.5, "max": 1.5, "priciest": 1.5, "costliest": 1.5}),
+    "dir:min": (0.0, {"least": 1.5, "lowest": 1.5, "smallest": 1.5, "fewest": 1.5,
+                      "less": 1.0, "fewer": 1.0, "minimum": 1.2, "bottom": 1.2, "worst": 0.8,
+                      "shortest": 1.5, "lightest": 1.5, "cheapest": 1.5, "earliest": 1.2,
+                      "first": 0.8, "rarest": 1.5, "rare": 1.2, "min": 1.5, "quickest": 1.5,
+                      "fastest": 1.2, "youngest": 0.6, "soonest": 1.5}),
+}
+
+# Words that ask for an operation rather than naming a column or value.
+CUE_WORDS = frozenset(
+    w for _, cues in CUES.values() for phrase in cues for w in split_words(phrase)
+) | {"how", "many", "much", "number", "there", "any", "ones", "one", "amount"}
+
+# Nouns that name the rows themselves ("how many records"), on top of the table's own title.
+ROW_NOUNS = frozenset(
+    "row rows record records entry entries item items line lines case cases time times "
+    "people person one ones thing things total".split()
+)
+
+# Everyday stand-ins for common column words: question stem → header stems it can mean.
+SYNONYMS: dict[str, tuple[str, ...]] = {
+    "cost": ("price", "fee", "amount", "charg"), "price": ("cost", "fee", "amount", "fare"),
+    "paid": ("price", "amount", "fee", "payment"), "pay": ("price", "amount", "payment"),
+    "spent": ("amount", "cost", "price"), "spend": ("amount", "cost", "price"),
+    "earn": ("revenu", "incom", "salari", "amount"), "money": ("amount", "price", "revenu"),
+    "revenu": ("sale", "amount", "price", "incom"), "sale": ("revenu", "amount", "sold"),
+    "long": ("durat", "length", "minut", "hour", "day"), "durat": ("minut", "hour", "length"),
+    "heavi": ("weight", "mass"), "weigh": ("weight", "mass"), "weight": ("mass",),
+    "mass": ("weight",), "tall": ("height",), "old": ("age",), "age": ("old",),
+    "when": ("date", "year", "time", "day"), "date": ("day", "time"), "year": ("season", "date"),
+    "who": ("name", "player", "person", "staff", "custom", "member", "owner", "driver"),
+    "where": ("locat", "place", "citi", "venu", "site", "countri", "region", "island"),
+    "citi": ("town", "locat"), "town": ("citi",), "countri": ("nation", "nationali"),
+    "nation": ("countri",), "many": ("quantiti", "count", "number"),
+    "quantiti": ("qty", "number", "count", "unit"), "amount": ("quantiti", "total", "price"),
+    "big": ("size",), "larg": ("size",), "small": ("size",), "score": ("point", "result"),
+    "point": ("score",), "kind": ("type", "categori", "class"), "type": ("categori", "kind", "class"),
+    "categori": ("type", "class", "kind"), "status": ("state",),
+    "male": ("sex", "gender"), "femal": ("sex", "gender"), "sex": ("gender",),
+    "gender": ("sex",), "rank": ("posit", "place"), "place": ("rank", "posit", "locat"),
+    "team": ("club",), "club": ("team",), "titl": ("name",), "film": ("titl",),
+}
+
+
+def prior_weights() -> dict[str, float]:
+    """Feature weights of the untaught model."""
+    weights: dict[str, float] = {}
+    for fragment, (bias, cues) in CUES.items():
+        weights[f"op:{fragment}"] = bias
+        for phrase, weight in cues.items():
+            weights[f"lex:{' '.join(stem(w) for w in split_words(phrase))}|{fragment}"] = weight
+    weights.update(STRUCTURE_PRIOR)
+    return weights
+
+
+# Weights of the features that do not pair words with fragments (see features.py).
+STRUCTURE_PRIOR: dict[str, float] = {
+    "cover": 1.6,                   # per content word a column, value or number accounts for
+    "cover:quoted": 2.0,
+    "ent:exact": 1.0, "ent:stem": 0.7, "ent:partial": -0.4, "ent:fuzzy": -0.5,
+    "ent:number": 0.3, "ent:floating": -3.5, "ent:floating+col": 1.2,
+    "ent:floating+col_exact": 0.5,
+    "contains:partial": -0.3, "contains:quoted": 1.0,
+    "col:exact": 0.6, "col:partial": 0.0, "col:stem": 0.4, "col:fuzzy": -0.2,
+    "col:synonym": 0.2, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
+    "col:id": -0.6,
+    "values.col:none": -0.3, "values.col:exact": 0.6,
+    "measure.col:none": -0.9, "key.col:none": -0.9, "order.col:none": -0.5,
+    "filter.col:none": -0.4, "filter.col:exact": 0.3,
+    "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
+    "cmp:date_year": -0.2, "cmp:out_of_range": -1.0, "num:as_entity": 0.3,
+    "size": -0.25, "rows:all": 0.0, "rows:nested": -0.4,
+    "super:nested": -1.5, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
+    "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
+    "agg.on_single": -0.5,
+    # after execution: the answer against the question's wh-word
+    "den:empty": -3.0, "den:null": -3.0, "den:many": -0.4, "den:huge": -1.5,
+    "den:how_many|number": 1.2, "den:how_many|text": -2.5, "den:how_many|date": -2.5,
+    "den:how_much|number": 1.0, "den:how_much|text": -2.0,
+    "den:when|date": 1.5, "den:when|number": 0.2, "den:when|text": -0.3,
+    "den:who|text": 1.0, "den:who|number": -1.5, "den:who|date": -1.5,
+    "den:which|text": 0.6, "den:which|number": -0.8, "den:which|date": -0.5,
+    "den:where|text": 0.8, "den:where|number": -1.5,
+    "den:yes_no|yesno": 1.0, "den:yes_no|number": -0.5, "den:other|yesno": -3.0,
+    "den:how_many|yesno": -3.0, "den:which|yesno": -3.0, "den:what|yesno": -3.0,
+    "den:who|yesno": -3.0, "den:when|yesno": -3.0,
+    "den:repeats_number": -1.5, "den:table": -0.5, "den:list|many": 0.6,
+    "den:singular|many": -0.6,
+}

@@ -1,0 +1,211 @@
+"""compile: a logical form → a sqlglot tree → SQL text.
+
+Only sqlglot's builders make SQL here: identifiers through `exp.to_identifier(..., quoted=True)`,
+values through literal builders. Nothing a person typed is ever parsed as SQL.
+"""
+
+from __future__ import annotations
+
+import datetime
+from functools import lru_cache
+
+from sqlglot import exp
+
+from . import logic as L
+from .load import ROW, TABLE
+
+AGGREGATES = {
+    "sum": exp.Sum, "avg": exp.Avg, "min": exp.Min, "max": exp.Max, "median": exp.Median,
+}
+COMPARISONS = {"gt": exp.GT, "lt": exp.LT, "ge": exp.GTE, "le": exp.LTE}
+
+
+def column(name: str) -> exp.Column:
+    return exp.Column(this=exp.to_identifier(name, quoted=True))
+
+
+def literal(value: L.Literal) -> exp.Expression:
+    if value is None:
+        return exp.Null()
+    if isinstance(value, datetime.date):
+        return exp.cast(exp.Literal.string(value.isoformat()), "DATE")
+    if isinstance(value, bool):
+        return exp.Boolean(this=value)
+    if isinstance(value, (int, float)):
+        if isinstance(value, float) and value.is_integer():
+            value = int(value)
+        return exp.Literal.number(value)
+    return exp.Literal.string(str(value))
+
+
+def _table() -> exp.Table:
+    return exp.Table(this=exp.to_identifier(TABLE, quoted=True))
+
+
+def _select(*projections: exp.Expression, where: exp.Expression | None = None) -> exp.Select:
+    query = exp.Select(expressions=list(projections)).from_(_table(), copy=False)
+    return query.where(where, copy=False) if where is not None else query
+
+
+def _paren(query: exp.Expression) -> exp.Subquery:
+    return exp.Subquery(this=query)
+
+
+# ── row sets → conditions ─────────────────────────────────────────────────────────────────────
+def condition(rows: L.Rows) -> exp.Expression:
+    """The WHERE condition that selects a row set from the table."""
+    return _CONDITIONS[type(rows)](rows)
+
+
+def _where(rows: L.Rows) -> exp.Expression | None:
+    return None if isinstance(rows, L.All) else condition(rows)
+
+
+def _not(rows: L.Not) -> exp.Expression:
+    # a row whose condition is unknown (a missing cell) counts as "not" matching
+    inner = exp.Coalesce(this=exp.Paren(this=condition(rows.rows)), expressions=[exp.false()])
+    return exp.Not(this=inner)
+
+
+def _extreme(rows: L.Extreme) -> exp.Expression:
+    agg = exp.Max if rows.direction == "max" else exp.Min
+    best = _select(agg(this=column(rows.col)), where=_where(rows.rows))
+    match = exp.EQ(this=column(rows.col), expression=_paren(best))
+    return match if isinstance(rows.rows, L.All) else exp.and_(condition(rows.rows), match)
+
+
+def _position(rows: L.Position) -> exp.Expression:
+    agg = exp.Min if rows.which == "first" else exp.Max
+    pick = _select(agg(this=column(ROW)), where=_where(rows.rows))
+    return exp.EQ(this=column(ROW), expression=_paren(pick))
+
+
+def _neighbour(rows: L.Neighbour) -> exp.Expression:
+    step = exp.Add if rows.step == "next" else exp.Sub
+    shifted = _select(step(this=column(ROW), expression=exp.Literal.number(1)),
+                      where=_where(rows.rows))
+    return exp.In(this=column(ROW), query=_paren(shifted))
+
+
+def _period(rows: L.Period) -> exp.Expression:
+    parts = []
+    if rows.year is not None:
+        parts.append(exp.EQ(this=exp.Year(this=column(rows.col)), expression=literal(rows.year)))
+    if rows.month is not None:
+        parts.append(exp.EQ(this=exp.Month(this=column(rows.col)), expression=literal(rows.month)))
+    return exp.and_(*parts) if parts else exp.true()
+
+
+_CONDITIONS = {
+    L.All: lambda r: exp.true(),
+    L.Eq: lambda r: exp.EQ(this=column(r.col), expression=literal(r.value)),
+    L.Cmp: lambda r: COMPARISONS[r.op](this=column(r.col), expression=literal(r.value)),
+    L.Between: lambda r: exp.Between(this=column(r.col), low=literal(r.low), high=literal(r.high)),
+    L.Contains: lambda r: exp.GT(
+        this=exp.StrPosition(this=exp.Lower(this=exp.cast(column(r.col), "TEXT")),
+                             substr=exp.Literal.string(str(r.value).lower())),
+        expression=exp.Literal.number(0)),
+    L.Missing: lambda r: exp.Is(this=column(r.col), expression=exp.Null()),
+    L.Period: _period,
+    L.And: lambda r: exp.and_(condition(r.left), condition(r.right)),
+    L.Or: lambda r: exp.Paren(this=exp.or_(condition(r.left), condition(r.right))),
+    L.Not: _not,
+    L.Extreme: _extreme,
+    L.Position: _position,
+    L.Neighbour: _neighbour,
+}
+
+
+# ── answers → queries ─────────────────────────────────────────────────────────────────────────
+def aggregate(fn: str, col: str | None) -> exp.Expression:
+    if fn == "count":
+        return exp.Count(this=exp.Star())
+    if fn == "count_distinct":
+        return exp.Count(this=exp.Distinct(expressions=[column(col)]))
+    return AGGREGATES[fn](this=column(col))
+
+
+def _not_null(col: str, rows: L.Rows) -> exp.Expression:
+    present = exp.Not(this=exp.Is(this=column(col), expression=exp.Null()))
+    where = _where(rows)
+    return present if where is None else exp.and_(where, present)
+
+
+def _values(form: L.Values) -> exp.Select:
+    return _select(column(form.col), where=_not_null(form.col, form.rows)).order_by(
+        column(ROW), copy=False)
+
+
+def _distinct(form: L.Distinct) -> exp.Select:
+    query = _select(column(form.col), where=_not_null(form.col, form.rows))
+    return query.group_by(column(form.col), copy=False).order_by(
+        exp.Min(this=column(ROW)), copy=False)
+
+
+def _aggregate(form: L.Aggregate) -> exp.Select:
+    return _select(aggregate(form.fn, form.col), where=_where(form.rows))
+
+
+def _difference(form: L.Difference) -> exp.Select:
+    gap = exp.Sub(this=_paren(_aggregate(form.left)), expression=_paren(_aggregate(form.right)))
+    return exp.Select(expressions=[exp.Abs(this=gap)])
+
+
+def _grouped(key: str, rows: L.Rows) -> exp.Select:
+    return _select(column(key), where=_not_null(key, rows)).group_by(column(key), copy=False)
+
+
+def _which_of(form: L.WhichOf) -> exp.Select:
+    pair = exp.In(this=column(form.col), expressions=[literal(form.first), literal(form.second)])
+    query = _select(column(form.col), where=pair).group_by(column(form.col), copy=False)
+    order = exp.Ordered(this=aggregate(form.fn, form.measure), desc=form.direction == "max")
+    return query.order_by(order, copy=False).limit(1, copy=False)
+
+
+def _group_best(form: L.GroupBest) -> exp.Select:
+    measure = aggregate(form.fn, form.measure)
+    per_group = _grouped(form.key, form.rows).select(
+        exp.alias_(measure.copy(), "m", quoted=True), append=False, copy=False)
+    best_fn = exp.Max if form.direction == "max" else exp.Min
+    best = exp.Select(expressions=[best_fn(this=exp.column("m", quoted=True))]).from_(
+        _paren(per_group).as_("g", quoted=True), copy=False)
+    having = exp.EQ(this=measure, expression=_paren(best))
+    return _grouped(form.key, form.rows).having(having, copy=False).order_by(
+        exp.Min(this=column(ROW)), copy=False)
+
+
+def _top_n(form: L.TopN) -> exp.Select:
+    query = _select(column(form.col), where=_not_null(form.by, form.rows))
+    order = exp.Ordered(this=column(form.by), desc=form.direction == "max", nulls_first=False)
+    return query.order_by(order, copy=False).limit(form.n, copy=False)
+
+
+def _yes_no(form: L.YesNo) -> exp.Select:
+    any_row = exp.GT(this=exp.Count(this=exp.Star()), expression=exp.Literal.number(0))
+    case = exp.Case(ifs=[exp.If(this=any_row, true=exp.Literal.string("yes"))],
+                    default=exp.Literal.string("no"))
+    return _select(case, where=_where(form.rows))
+
+
+def _per_group(form: L.GroupTable) -> exp.Select:
+    measure = aggregate(form.fn, form.measure)
+    query = _grouped(form.key, form.rows).select(measure, copy=False)
+    return query.order_by(exp.Ordered(this=measure.copy(), desc=True), copy=False)
+
+
+_QUERIES = {
+    L.Values: _values, L.Distinct: _distinct, L.Aggregate: _aggregate,
+    L.Difference: _difference, L.WhichOf: _which_of, L.GroupBest: _group_best,
+    L.TopN: _top_n, L.YesNo: _yes_no, L.GroupTable: _per_group,
+}
+
+
+def compile_form(form: L.Answer) -> exp.Expression:
+    """The sqlglot tree of an answer form."""
+    return _QUERIES[type(form)](form)
+
+
+@lru_cache(maxsize=20000)
+def render(form: L.Answer, dialect: str = "duckdb") -> str:
+    """SQL text of a form, rendered once per form and dialect."""
+    return compile_form(form).sql(dialect=dialect)
