@@ -51,6 +51,8 @@ class Analysis:
     content: frozenset[int]            # token positions that carry content
     grams: tuple[str, ...]             # stemmed unigrams and bigrams, for lexical features
     qtype: str                         # how_many, how_much, who, which, what, when, where, yes_no …
+    head: int = -1                     # the word after "how many" / "number of", if any
+    wh_head: int = -1                  # the word after a leading "which" / "what", if any
     truncated: bool = False
     spans: dict = field(default_factory=dict)   # column name → span of its mention
 
@@ -66,18 +68,24 @@ def analyse(question: str, table: Table) -> Analysis:
     atoms: dict[str, list[Atom]] = defaultdict(list)
     col_match, spans = _column_mentions(words, table, content, atoms)
     _value_mentions(words, table, content, col_match, spans, atoms)
-    _number_mentions(words, table, content, atoms)
+    _number_mentions(words, table, content, spans, atoms)
+    atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content)
     for slot, names in OPERATORS.items():
         atoms[slot] = [Atom(slot, name) for name in names]
-    grams = _grams(words)
+    qtype = _qtype(words)
+    grams = _grams(words) + (f"qtype:{qtype}",)
     return Analysis(words, table, dict(atoms), col_match, frozenset(content), grams,
-                    _qtype(words),
+                    qtype, _head(words, ("how many", "number of")),
+                    _head(words, ("which", "what")),
                     truncated, spans)
 
 
 def _content_tokens(words: Words, table: Table) -> frozenset[int]:
-    title = {stem(w) for w in split_words(table.title.replace("_", " "))}
-    row_nouns = {stem(w) for w in ROW_NOUNS} | title | {w.rstrip("s") for w in title}
+    ids = {stem(w) for col in table.columns if _is_id(col, table)
+           for w in split_words(col.header.replace("_", " ")) if w not in ("id", "no", "number")}
+    headers = {stem(w) for col in table.columns for w in split_words(col.header.replace("_", " "))}
+    title = {stem(w) for w in split_words(table.title.replace("_", " "))} - headers
+    row_nouns = ({stem(w) for w in ROW_NOUNS} - headers) | title | ids
     cue_stems = {stem(w) for w in CUE_WORDS}
     return frozenset(
         t.index for t in words.tokens
@@ -86,11 +94,36 @@ def _content_tokens(words: Words, table: Table) -> frozenset[int]:
     )
 
 
+def _is_id(col: Column, table: Table) -> bool:
+    """A column that names each row once ("order_id"): its word names the rows."""
+    name = col.base.lower()
+    return (name == "id" or name.endswith("_id") or name.endswith(" id")) and (
+        col.distinct >= table.row_count > 1)
+
+
 def _grams(words: Words) -> tuple[str, ...]:
     stems = [t.stem for t in words.tokens if t.text[0].isalnum() or t.text == "n't"]
     grams = set(stems) | {f"{a} {b}" for a, b in zip(stems, stems[1:])}
     grams |= {f"{a} {b} {c}" for a, b, c in zip(stems, stems[1:], stems[2:])}
     return tuple(sorted(grams))
+
+
+def _head(words: Words, openers: tuple[str, ...]) -> int:
+    """Where the noun that names what is asked for stands: "how many X", "which X"."""
+    texts = [t.text for t in words.tokens]
+    for i in range(len(texts)):
+        for opener in openers:
+            parts = opener.split()
+            if texts[i : i + len(parts)] == parts and (len(parts) > 1 or i < 3):
+                j = i + len(parts)
+                break
+        else:
+            continue
+        while j < len(texts) and texts[j] in {"different", "distinct", "unique", "the", "kind",
+                                               "kinds", "of", "type", "types"}:
+            j += 1
+        return j
+    return -1
 
 
 def _qtype(words: Words) -> str:
@@ -120,9 +153,14 @@ UNIT_WORDS = {"mm", "cm", "m", "km", "g", "kg", "lb", "lbs", "eur", "usd", "gbp"
 def _column_mentions(words, table, content, atoms):
     stems = [t.stem for t in words.tokens]
     found = {col.name: _match_header(_header_words(col), stems, words) for col in table.columns}
+    values = _value_index(table)["exact"]
+    for name, (quality, span) in list(found.items()):
+        if quality == "synonym" and any(c == name for c, _ in values.get(
+                words.tokens[span[0]].text, [])):
+            found[name] = ("none", None)
     # a comparative or a synonym that names a column is content, though it looks like a cue
-    content |= {i for quality, span in found.values() if span and quality == "synonym"
-                for i in range(*span)}
+    content |= {i for quality, span in found.values() if span and quality != "fuzzy"
+                for i in range(*span) if not words.tokens[i].stop}
     col_match = {name: quality for name, (quality, _) in found.items()}
     spans = {name: span for name, (_, span) in found.items() if span}
     for col in table.columns:
@@ -130,6 +168,8 @@ def _column_mentions(words, table, content, atoms):
         covers = sum(1 for i in range(*span) if i in content) if span else 0
         for slot in _slots(col, table):
             atoms[slot].append(Atom(slot, col.name, span, col_match[col.name], covers))
+            if slot == "DATECOL" and span:   # a date says its column: "after 8 May"
+                atoms[slot].append(Atom(slot, col.name, None, "none", 0))
     return col_match, spans
 
 
@@ -187,6 +227,8 @@ def _degree_base(word: str) -> str | None:
 
 
 def _slots(col: Column, table: Table) -> list[str]:
+    if col.view and _is_id(table.column(col.base), table):
+        return []   # "BK-0091" holds a number, but it is a name, not a quantity
     slots = []
     if col.view is None:
         slots.append("ANYCOL")
@@ -264,23 +306,23 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms):
                     add("ENTITY", (col, value), (i, j), "stem")
             _partial(index, span_tokens, stems, (i, j), content, add)
     _fuzzy(index, tokens, content, found, add)
-    _with_column_words(found, col_spans, content)
     _floating(table, found, col_match, col_spans, content, atoms)
     for atom in found.values():
         atoms[atom.slot].append(atom)
 
 
-def _with_column_words(found, col_spans, content):
-    """"dream island": the value and its column's name side by side are one mention."""
-    for key, atom in list(found.items()):
-        if atom.slot != "ENTITY" or atom.span is None:
+def _with_column_words(entities: list[Atom], col_spans, content) -> list[Atom]:
+    """"dream island", "rating of 1": a value beside its column's name is one mention."""
+    merged = []
+    for atom in entities:
+        if atom.span is None or atom.quality.startswith("floating"):
             continue
         span = col_spans.get(atom.value[0])
         if span and (0 <= span[0] - atom.span[1] <= 1 or 0 <= atom.span[0] - span[1] <= 1):
             start, end = min(span[0], atom.span[0]), max(span[1], atom.span[1])
             covers = sum(1 for i in range(start, end) if i in content)
-            found[key + ("+col",)] = Atom("ENTITY", atom.value, (start, end), atom.quality,
-                                          covers)
+            merged.append(Atom("ENTITY", atom.value, (start, end), atom.quality, covers))
+    return merged
 
 
 def _partial(index, span_tokens, stems, span, content, add):
@@ -347,13 +389,15 @@ def _typed(col: Column, value):
 
 
 # ── numbers and dates ─────────────────────────────────────────────────────────────────────────
-def _number_mentions(words, table, content, atoms):
+def _number_mentions(words, table, content, col_spans, atoms):
     for number in words.numbers:
         span = (number.start, number.end)
         atoms["NUMBER"].append(Atom("NUMBER", number.value, span, "ordinal" if number.ordinal
                                     else "number", 1))
         for col in table.columns:
-            if col.kind == "number" and _has_value(table, col, number.value):
+            named = col_spans.get(col.name)
+            beside = named and (0 <= span[0] - named[1] <= 1 or 0 <= named[0] - span[1] <= 1)
+            if col.kind == "number" and (beside or _has_value(table, col, number.value)):
                 atoms["ENTITY"].append(Atom("ENTITY", (col.name, _num(number.value)), span,
                                             "number", 1))
     for date in words.dates:

@@ -114,10 +114,20 @@ def derive(analysis: Analysis, model: Model, max_size: int = MAX_SIZE,
     finals = []
     for item in answers:
         root = {}
+        frags = _fragments_of(item)
         for fn in ROOT_FEATURES:
-            root.update(fn(analysis, item.used))
+            root.update(fn(analysis, item.used, frags))
         finals.append(_with_root(item, root, model))
     return _prune(finals, len(finals))
+
+
+def _fragments_of(item: Item) -> frozenset[str]:
+    found, stack = set(), [item]
+    while stack:
+        node = stack.pop()
+        found.update(fragments(node.step))
+        stack.extend(node.children)
+    return frozenset(found)
 
 
 def _with_root(item: Item, root: dict, model: Model) -> Item:
@@ -490,6 +500,38 @@ def top_n(a, col, n, rows, by, direction):
     if not float(n).is_integer() or not 2 <= n <= 100 or not _scoped(rows):
         return None
     return L.TopN(col, int(n), rows, by, direction)
+
+
+@builder
+def spread(a, fn1, fn2, col, rows):
+    if {fn1, fn2} != {"max", "min"} or fn1 != "max":
+        return None
+    return L.Difference(L.Aggregate("max", col, rows), L.Aggregate("min", col, rows))
+
+
+@builder
+def top_values(a, col, n, rows, direction):
+    return top_n(a, col, n, rows, col, direction)
+
+
+def _count_n(n) -> int | None:
+    return int(n) if float(n).is_integer() and 2 <= n <= 100 else None
+
+
+@builder
+def group_top_count(a, key, n, _, rows, direction):
+    n = _count_n(n)
+    if n is None or _filters_on(rows, key) or not _scoped(rows):
+        return None
+    return L.GroupTop(key, "count", None, n, rows, direction)
+
+
+@builder
+def group_top(a, key, n, fn, col, rows, direction):
+    n = _count_n(n)
+    if n is None or key == col or _filters_on(rows, key) or not _scoped(rows):
+        return None
+    return L.GroupTop(key, fn, col, n, rows, direction)
 
 
 @builder

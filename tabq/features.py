@@ -19,18 +19,22 @@ from .answers import Denotation
 
 Features = dict[str, float]
 NODE_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
-ROOT_FEATURES: list[Callable[[Analysis, frozenset[int]], Features]] = []
+ROOT_FEATURES: list[Callable[[Analysis, frozenset[int], frozenset[str]], Features]] = []
 ANSWER_FEATURES: list[Callable[[Analysis, Denotation], Features]] = []
 
 # The role a column plays, by the rule that uses it (see grammar/question.lark).
 ROLES = {
     "values": "values", "distinct": "values", "count_distinct": "values", "top_n": "values",
     "aggregate": "measure", "aggregate_difference": "measure", "which_of_value": "measure",
+    "spread": "measure", "top_values": "values", "group_top": "key", "group_top_count": "key",
     "group_best": "key", "group_best_count": "key", "per_group": "key", "per_group_count": "key",
-    "compare": "filter", "compare_date": "filter", "between": "filter", "period": "filter",
+    "compare": "filter", "compare_date": "datefilter", "between": "filter",
+    "period": "datefilter",
     "missing": "filter", "present": "filter", "extreme": "order",
 }
 OPERATOR_SLOTS = {"CMP", "AGG", "DIR", "POS", "STEP"}
+# In these an aggregate measures groups: "most tickets" there is a sum, not a maximum.
+GROUP_RULES = ("group_best", "group_top", "per_group", "which_of_value")
 
 
 @dataclass(frozen=True)
@@ -72,12 +76,17 @@ def fragments(step: Step) -> list[str]:
              "count_difference": "difference", "aggregate_difference": "difference",
              "which_of_count": "which_of", "which_of_value": "which_of",
              "which_of_position": "which_of", "group_best_count": "group_best",
-             "per_group_count": "per_group", "aggregate": None, "all_rows": None}
+             "per_group_count": "per_group", "aggregate": None, "all_rows": None,
+             "spread": "difference", "top_values": "top_n", "group_top_count": "group_top"}
     out = [names.get(rule, rule)] if names.get(rule, rule) else []
-    if "AGG" in ops:
+    if rule == "spread":
+        out += ["max", "min"]
+    elif "AGG" in ops and rule in GROUP_RULES:
+        out.append(f"group:{ops['AGG']}")
+    elif "AGG" in ops:
         out.append(ops["AGG"])
     if rule in ("count", "count_difference", "which_of_count", "group_best_count",
-                "per_group_count"):
+                "per_group_count", "group_top_count"):
         out.append("count")
     if "DIR" in ops:
         out.append(f"dir:{ops['DIR']}")
@@ -122,7 +131,8 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
     for atom in step.atoms:
         if atom.slot.endswith("COL"):
             col = analysis.table.column(atom.value)
-            _add(feats, f"col:{atom.quality}")
+            if not (role == "datefilter" and atom.quality == "none"):
+                _add(feats, f"col:{atom.quality}")
             _add(feats, f"{role}.col:{atom.quality}")
             if col.view:
                 _add(feats, "col:view")
@@ -130,7 +140,16 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "col:id")
             if atom.covers:
                 _add(feats, "cover", atom.covers)
+            if atom.span and atom.span[0] == analysis.head and step.rule in HEAD_RULES:
+                _add(feats, f"head:{step.rule}")
+            if atom.span and atom.span[0] == analysis.wh_head and step.rule in HEAD_RULES:
+                _add(feats, f"whhead:{step.rule}")
     return feats
+
+
+# Rules whose column is what "how many X" counts: X names a column, not the rows.
+HEAD_RULES = ("count_distinct", "values", "aggregate", "distinct", "group_best",
+              "group_best_count", "group_top", "group_top_count", "top_n", "top_values")
 
 
 @node_feature
@@ -141,6 +160,8 @@ def value_matches(analysis: Analysis, step: Step) -> Features:
             _add(feats, f"ent:{atom.quality}")
             if atom.quality == "floating+col":
                 _add(feats, "ent:floating")
+                if atom.value[1] is True or str(atom.value[1]).lower() in ("yes", "y", "true"):
+                    _add(feats, "ent:floating_yes")
             if atom.quality == "floating+col" and analysis.col_match.get(atom.value[0]) == "exact":
                 _add(feats, "ent:floating+col_exact")
         elif atom.slot == "CONTAINS":
@@ -166,15 +187,20 @@ def comparisons(analysis: Analysis, step: Step) -> Features:
     return feats
 
 
+AGGREGATING = ("count", "aggregate", "count_distinct")
 SUPERLATIVES = ("extreme", "group_best", "group_best_count", "top_n", "which_of_count",
-                "which_of_value", "which_of_position")
+                "which_of_value", "which_of_position", "top_values", "group_top",
+                "group_top_count", "spread")
 
 
 @node_feature
 def nesting(analysis: Analysis, step: Step) -> Features:
     """Two superlatives in one form, or conditions stacked deep, are rarely what was asked."""
-    from .logic import Extreme, Position, walk
+    from .logic import Extreme, Neighbour, Position, walk
     feats: Features = {}
+    if step.rule in AGGREGATING and step.child_forms and isinstance(
+            step.child_forms[0], (Extreme, Position, Neighbour)):
+        _add(feats, "agg.on_single")
     if step.rule in SUPERLATIVES or step.rule == "position":
         for form in step.child_forms:
             if any(isinstance(n, (Extreme, Position)) for n in walk(form)):
@@ -206,7 +232,15 @@ def _add(feats: Features, name: str, value: float = 1.0) -> None:
 
 # ── whole candidates ──────────────────────────────────────────────────────────────────────────
 @root_feature
-def unexplained(analysis: Analysis, used: frozenset[int]) -> Features:
+def unexplained_cues(analysis: Analysis, used: frozenset[int], frags: frozenset[str]) -> Features:
+    """A word that plainly asks for an operation ("before", "total", "not") the form lacks."""
+    from .prior import STRONG_CUES
+    missed = sum(1 for g in analysis.grams if g in STRONG_CUES and not STRONG_CUES[g] & frags)
+    return {"cue:unexplained": float(missed)} if missed else {}
+
+
+@root_feature
+def unexplained(analysis: Analysis, used: frozenset[int], frags: frozenset[str]) -> Features:
     """Numbers, dates and exact cell values the question names but the form ignores."""
     feats: Features = {}
     for atom in analysis.atoms.get("NUMBER", []):
@@ -243,6 +277,15 @@ def answer_shape(analysis: Analysis, den: Denotation) -> Features:
     if den.is_table:
         feats["den:table"] = 1.0
     return feats
+
+
+@answer_feature
+def repeated_values(analysis: Analysis, den: Denotation) -> Features:
+    """A list with repeats: the different values were probably meant."""
+    if den.is_table or len(den.values) < 2:
+        return {}
+    keys = [repr(v) for v in den.values]
+    return {"den:repeats": 1.0} if len(set(keys)) < len(keys) else {}
 
 
 @answer_feature

@@ -214,6 +214,19 @@ class TopN(Answer):
 
 
 @dataclass(frozen=True)
+class GroupTop(Answer):
+    """The n values of `key` whose groups have the largest/smallest fn(measure)."""
+
+    key: str
+    fn: str
+    measure: str | None
+    n: int
+    rows: Rows
+    direction: str
+    tag = "group_top"
+
+
+@dataclass(frozen=True)
 class YesNo(Answer):
     """'yes' when `rows` holds at least one row."""
 
@@ -236,7 +249,7 @@ FORMS: dict[str, type] = {
     cls.tag: cls
     for cls in (All, Eq, Cmp, Between, Contains, Missing, Period, And, Or, Not, Extreme,
                 Position, Neighbour, Values, Distinct, Aggregate, Difference, WhichOf,
-                GroupBest, TopN, YesNo, GroupTable)
+                GroupBest, GroupTop, TopN, YesNo, GroupTable)
 }
 
 
@@ -440,6 +453,11 @@ class _Reader:
     def group_best(self, f: GroupBest) -> str:
         word = "largest" if f.direction == "max" else "smallest"
         return (f"the {self.label(f.key)} with the {word} "
+                f"{self.agg(f.fn, f.measure).removeprefix('the ')}{self.where(f.rows)}")
+
+    def group_top(self, f: GroupTop) -> str:
+        word = "largest" if f.direction == "max" else "smallest"
+        return (f"the {f.n} {self.label(f.key)} values with the {word} "
                 f"{self.agg(f.fn, f.measure).removeprefix('the ')}{self.where(f.rows)}")
 
     def top_n(self, f: TopN) -> str:

@@ -14,8 +14,8 @@ from .text import split_words, stem
 CUES: dict[str, tuple[float, dict[str, float]]] = {
     "count": (-1.0, {"how many": 3.0, "number of": 2.5, "count": 2.5, "how often": 2.0,
                      "total number": 1.0, "many": 0.5, "times": 0.5, "tally": 2.0}),
-    "count_distinct": (-2.5, {"different": 1.5, "distinct": 2.0, "unique": 2.0,
-                              "how many": 1.0, "number of": 0.8, "various": 1.0}),
+    "count_distinct": (-2.5, {"different": 2.6, "distinct": 3.0, "unique": 3.0,
+                              "how many": 1.0, "number of": 0.8, "various": 1.5}),
     "sum": (-1.5, {"total": 2.6, "sum": 2.6, "combined": 2.2, "altogether": 2.0,
                    "in all": 1.5, "overall": 1.0, "how much": 1.2, "together": 1.4,
                    "total number": -1.5, "total of": 0.6}),
@@ -30,7 +30,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                    "tallest": 2.0, "slowest": 1.6, "costliest": 2.0, "expensive": 1.4}),
     "values": (0.0, {"what": 0.5, "which": 0.5, "who": 0.6, "when": 0.6, "where": 0.6,
                      "what is": 0.5, "list": 0.3, "name": 0.3, "how many": -0.8}),
-    "distinct": (-1.8, {"different": 1.6, "distinct": 2.0, "unique": 2.0, "list": 0.8,
+    "distinct": (-1.4, {"different": 1.6, "distinct": 2.0, "unique": 2.0, "list": 0.8,
                         "which": 0.5, "what": 0.3, "kinds": 1.0, "types": 1.0, "all": 0.3}),
     "difference": (-2.5, {"difference": 3.0, "how many more": 3.0, "how much more": 3.0,
                           "more than": 0.8, "fewer than": 0.8, "less than": 0.5,
@@ -43,11 +43,20 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                           "often": 1.5}),
     "top_n": (-2.5, {"top": 2.8, "best": 1.0, "first": 0.3, "highest": 0.6, "largest": 0.6,
                      "most": 0.5, "bottom": 2.0, "lowest": 0.6}),
-    "yes_no": (-3.0, {"is there": 3.5, "are there": 3.5, "was there": 3.5, "were there": 3.5,
+    "group_top": (-2.5, {"top": 2.8, "best": 1.0, "bottom": 2.0, "highest": 0.6, "largest": 0.6,
+                         "most": 0.8, "lowest": 0.6, "fewest": 0.8, "least": 0.6}),
+    "yes_no": (-3.0, {"qtype:yes_no": 3.0, "is there": 3.5, "are there": 3.5, "was there": 3.5, "were there": 3.5,
                       "any": 1.2, "did": 1.4, "does": 1.4, "do": 1.2, "ever": 1.0,
                       "has": 0.8, "have": 0.6}),
     "per_group": (-3.0, {"per": 2.8, "each": 2.4, "for each": 1.5, "by": 1.4, "breakdown": 2.5,
                          "for every": 2.5, "grouped": 2.5, "split by": 2.0}),
+    "group:sum": (0.0, {"total": 1.5, "sum": 1.5, "most": 0.6, "overall": 0.5}),
+    "group:avg": (-1.6, {"average": 3.6, "mean": 3.3, "avg": 3.6, "typical": 1.5, "per": 0.4}),
+    "group:max": (-2.2, {"maximum": 1.8, "max": 1.8, "single": 1.5, "highest": 0.6,
+                         "largest": 0.6, "biggest": 0.6, "longest": 0.8}),
+    "group:min": (-2.2, {"minimum": 1.8, "min": 1.8, "single": 1.5, "lowest": 0.6,
+                         "smallest": 0.6, "shortest": 0.8}),
+    "group:median": (-3.0, {"median": 5.0}),
     "eq": (0.0, {}),
     "cmp:gt": (-1.0, {"more than": 2.4, "over": 2.0, "above": 2.2, "greater than": 2.4,
                       "higher than": 2.4, "after": 1.8, "exceeding": 2.2, "exceed": 2.0,
@@ -70,13 +79,14 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                         "including": 0.8, "with": 0.2, "mention": 1.0, "word": 1.0}),
     "missing": (-3.0, {"missing": 3.5, "unknown": 3.0, "blank": 3.0, "empty": 3.0,
                        "null": 3.5, "not recorded": 3.0, "no value": 3.0, "without": 1.2,
-                       "not known": 3.0, "unrecorded": 3.0, "lack": 1.5, "lacking": 1.5}),
-    "present": (-3.0, {"known": 2.0, "recorded": 2.0, "with a": 0.5, "have a": 0.8}),
+                       "not known": 3.0, "unrecorded": 3.0, "lack": 1.5, "lacking": 1.5,
+                       "no": 1.8}),
+    "present": (-3.0, {"known": 2.0, "recorded": 0.8, "with a": 0.5, "have a": 0.8}),
     "period": (0.5, {"in": 0.5, "during": 0.8, "of": 0.2}),
     "and": (-0.3, {}),
     "or": (-1.5, {"or": 2.2, "either": 1.5}),
     "not": (-2.5, {"not": 3.0, "n't": 3.0, "except": 3.0, "other than": 3.0, "excluding": 3.0,
-                   "without": 1.5, "non": 2.5, "never": 2.0, "no": 0.8, "besides": 2.0,
+                   "without": 1.5, "non": 3.5, "never": 2.0, "no": 0.8, "besides": 2.0,
                    "apart from": 2.5, "aside from": 2.5, "isn't": 3.0, "wasn't": 3.0,
                    "weren't": 3.0, "aren't": 3.0, "didn't": 3.0, "doesn't": 3.0}),
     "extreme:max": (-1.8, {"most": 2.0, "highest": 2.4, "largest": 2.4, "biggest": 2.4,
@@ -90,9 +100,9 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                            "earliest": 2.2, "worst": 1.0, "min": 2.2, "youngest": 1.2,
                            "quickest": 2.4, "fastest": 2.2, "first": 0.4, "less": 0.5,
                            "soonest": 2.0}),
-    "first": (-2.0, {"first": 2.6, "earliest": 1.0, "top": 0.8, "opening": 1.5,
+    "first": (-2.6, {"first": 2.6, "earliest": 1.0, "top": 0.8, "opening": 1.5,
                      "begin": 1.0, "start": 1.0, "initial": 2.0}),
-    "last": (-2.0, {"last": 2.6, "final": 2.6, "latest": 1.0, "bottom": 1.2, "end": 0.8,
+    "last": (-2.6, {"last": 2.6, "final": 2.6, "latest": 1.0, "bottom": 1.2, "end": 0.8,
                     "most recent": 1.0}),
     "next": (-2.5, {"after": 2.2, "next": 2.8, "following": 2.6, "below": 1.4, "then": 1.0,
                     "succeeded": 2.0, "right after": 2.0}),
@@ -111,9 +121,32 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                       "fastest": 1.2, "youngest": 0.6, "soonest": 1.5}),
 }
 
+def cue_key(phrase: str) -> str:
+    """A cue phrase as the question grams spell it: stemmed words, or a "qtype:" tag as is."""
+    if phrase.startswith("qtype:"):
+        return phrase
+    return " ".join(stem(w) for w in split_words(phrase))
+
+
+# Phrases that plainly ask for one of a few fragments; a form with none of them leaves the
+# phrase unexplained ("before" asks for cmp:lt or prev). "how many" is not here: it often
+# asks for a number in a cell.
+STRONG_CUES: dict[str, frozenset[str]] = {}
+for _fragment, (_, _cues) in CUES.items():
+    for _phrase, _weight in _cues.items():
+        if _weight >= 2.2 and _phrase not in ("how many", "number of", "how much"):
+            _key = cue_key(_phrase)
+            STRONG_CUES[_key] = STRONG_CUES.get(_key, frozenset()) | {_fragment}
+for _key in list(STRONG_CUES):  # max/min words are also explained by superlative fragments
+    if STRONG_CUES[_key] & {"max", "extreme:max", "dir:max"}:
+        STRONG_CUES[_key] |= {"max", "extreme:max", "dir:max"}
+    if STRONG_CUES[_key] & {"min", "extreme:min", "dir:min"}:
+        STRONG_CUES[_key] |= {"min", "extreme:min", "dir:min"}
+
 # Words that ask for an operation rather than naming a column or value.
 CUE_WORDS = frozenset(
-    w for _, cues in CUES.values() for phrase in cues for w in split_words(phrase)
+    w for _, cues in CUES.values() for phrase in cues if not phrase.startswith("qtype:")
+    for w in split_words(phrase)
 ) | {"how", "many", "much", "number", "there", "any", "ones", "one", "amount"}
 
 # Nouns that name the rows themselves ("how many records"), on top of the table's own title.
@@ -127,10 +160,19 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "cost": ("price", "fee", "amount", "charg"), "price": ("cost", "fee", "amount", "fare"),
     "paid": ("price", "amount", "fee", "payment"), "pay": ("price", "amount", "payment"),
     "spent": ("amount", "cost", "price"), "spend": ("amount", "cost", "price"),
-    "earn": ("revenu", "incom", "salari", "amount"), "money": ("amount", "price", "revenu"),
-    "revenu": ("sale", "amount", "price", "incom"), "sale": ("revenu", "amount", "sold"),
+    "earn": ("revenu", "incom", "salari", "amount", "total"),
+    "money": ("amount", "price", "revenu", "total"), "incom": ("revenu", "amount", "total"),
+    "revenu": ("sale", "amount", "price", "incom", "total"), "sale": ("revenu", "amount", "sold"),
+    "day": ("date",), "month": ("date",), "week": ("date",),
     "long": ("durat", "length", "minut", "hour", "day"), "durat": ("minut", "hour", "length"),
     "heavi": ("weight", "mass"), "weigh": ("weight", "mass"), "weight": ("mass",),
+    "light": ("weight", "mass"), "short": ("length", "durat", "height"),
+    "cheap": ("price", "cost", "fee"), "expens": ("price", "cost", "fee"),
+    "costli": ("price", "cost"), "pricey": ("price", "cost"), "pric": ("price", "cost"),
+    "young": ("age",), "new": ("date", "year"), "recent": ("date", "year"),
+    "earli": ("date", "time", "year"), "late": ("date", "time", "year"),
+    "fast": ("time", "speed", "durat"), "quick": ("time", "durat"), "slow": ("time", "durat"),
+    "busi": ("count",), "wide": ("width",), "deep": ("depth",), "high": ("height",),
     "mass": ("weight",), "tall": ("height",), "old": ("age",), "age": ("old",),
     "when": ("date", "year", "time", "day"), "date": ("day", "time"), "year": ("season", "date"),
     "who": ("name", "player", "person", "staff", "custom", "member", "owner", "driver"),
@@ -141,7 +183,7 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "big": ("size",), "larg": ("size",), "small": ("size",), "score": ("point", "result"),
     "point": ("score",), "kind": ("type", "categori", "class"), "type": ("categori", "kind", "class"),
     "categori": ("type", "class", "kind"), "status": ("state",),
-    "male": ("sex", "gender"), "femal": ("sex", "gender"), "sex": ("gender",),
+    "sex": ("gender",),
     "gender": ("sex",), "rank": ("posit", "place"), "place": ("rank", "posit", "locat"),
     "team": ("club",), "club": ("team",), "titl": ("name",), "film": ("titl",),
 }
@@ -153,7 +195,7 @@ def prior_weights() -> dict[str, float]:
     for fragment, (bias, cues) in CUES.items():
         weights[f"op:{fragment}"] = bias
         for phrase, weight in cues.items():
-            weights[f"lex:{' '.join(stem(w) for w in split_words(phrase))}|{fragment}"] = weight
+            weights[f"lex:{cue_key(phrase)}|{fragment}"] = weight
     weights.update(STRUCTURE_PRIOR)
     return weights
 
@@ -162,7 +204,7 @@ def prior_weights() -> dict[str, float]:
 STRUCTURE_PRIOR: dict[str, float] = {
     "cover": 1.6,                   # per content word a column, value or number accounts for
     "cover:quoted": 2.0,
-    "ent:exact": 1.0, "ent:stem": 0.7, "ent:partial": -0.4, "ent:fuzzy": -0.5,
+    "ent:exact": 1.0, "ent:stem": 0.7, "ent:partial": -1.2, "ent:fuzzy": -0.5,
     "ent:number": 0.3, "ent:floating": -3.5, "ent:floating+col": 1.2,
     "ent:floating+col_exact": 0.5,
     "contains:partial": -0.3, "contains:quoted": 1.0,
@@ -175,9 +217,14 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
     "cmp:date_year": -0.2, "cmp:out_of_range": -1.0, "num:as_entity": 0.3,
     "size": -0.25, "rows:all": 0.0, "rows:nested": -0.4,
-    "super:nested": -1.5, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
+    "super:nested": -3.0, "cue:unexplained": -1.2, "den:repeats": -1.5,
+    "head:count_distinct": 2.5, "head:values": 0.6, "head:aggregate": 0.8,
+    "whhead:values": 1.2, "whhead:distinct": 1.2, "whhead:group_best": 1.2,
+    "whhead:group_best_count": 1.2, "whhead:group_top": 1.2, "whhead:group_top_count": 1.2,
+    "whhead:top_n": 0.8, "whhead:top_values": 0.8,
+    "ent:floating_yes": 0.8, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
-    "agg.on_single": -0.5,
+    "agg.on_single": -2.0,
     # after execution: the answer against the question's wh-word
     "den:empty": -3.0, "den:null": -3.0, "den:many": -0.4, "den:huge": -1.5,
     "den:how_many|number": 1.2, "den:how_many|text": -2.5, "den:how_many|date": -2.5,

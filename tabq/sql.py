@@ -174,6 +174,12 @@ def _group_best(form: L.GroupBest) -> exp.Select:
         exp.Min(this=column(ROW)), copy=False)
 
 
+def _group_top(form: L.GroupTop) -> exp.Select:
+    order = exp.Ordered(this=aggregate(form.fn, form.measure), desc=form.direction == "max",
+                        nulls_first=False)
+    return _grouped(form.key, form.rows).order_by(order, copy=False).limit(form.n, copy=False)
+
+
 def _top_n(form: L.TopN) -> exp.Select:
     query = _select(column(form.col), where=_not_null(form.by, form.rows))
     order = exp.Ordered(this=column(form.by), desc=form.direction == "max", nulls_first=False)
@@ -196,7 +202,7 @@ def _per_group(form: L.GroupTable) -> exp.Select:
 _QUERIES = {
     L.Values: _values, L.Distinct: _distinct, L.Aggregate: _aggregate,
     L.Difference: _difference, L.WhichOf: _which_of, L.GroupBest: _group_best,
-    L.TopN: _top_n, L.YesNo: _yes_no, L.GroupTable: _per_group,
+    L.GroupTop: _group_top, L.TopN: _top_n, L.YesNo: _yes_no, L.GroupTable: _per_group,
 }
 
 

@@ -121,9 +121,28 @@ def split_words(text: str) -> list[str]:
     return [t for t in _TOKEN.findall(normalise(text)) if t[0].isalnum() or t[0] in "$€£"]
 
 
+_CONTRACTIONS = {"won't": ("will", "n't"), "can't": ("can", "n't"), "cannot": ("can", "n't"),
+                 "what's": ("what", "is"), "who's": ("who", "is"), "where's": ("where", "is"),
+                 "that's": ("that", "is"), "there's": ("there", "is"), "how's": ("how", "is")}
+
+
+def _expand(raw: list[str]) -> list[str]:
+    """Split contractions so that "aren't" says "not" and "what's" says "what is"."""
+    out = []
+    for text in raw:
+        text = text.replace("’", "'")
+        if text in _CONTRACTIONS:
+            out.extend(_CONTRACTIONS[text])
+        elif text.endswith("n't") and len(text) > 3:
+            out.extend((text[:-3], "n't"))
+        else:
+            out.append(text)
+    return out
+
+
 def read_question(question: str) -> Words:
     """Tokenise a question and find the numbers, dates and quoted strings in it."""
-    raw = _TOKEN.findall(normalise(question))
+    raw = _expand(_TOKEN.findall(normalise(question)))
     tokens: list[Token] = []
     quoted: list[tuple[str, int]] = []
     for text in raw:
