@@ -1,0 +1,23 @@
+import shutil
+from importlib import resources
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+FIXTURES = Path(__file__).resolve().parent / "fixtures"
+
+
+@pytest.fixture(scope="session")
+def penguins_csv(tmp_path_factory) -> Path:
+    """The palmerpenguins package's own CSV (Horst, Hill & Gorman 2020), copied to a temp dir."""
+    source = resources.files("palmerpenguins") / "data" / "penguins.csv"
+    target = tmp_path_factory.mktemp("penguins") / "penguins.csv"
+    with resources.as_file(source) as path:
+        shutil.copy(path, target)
+    return target
+
+
+@pytest.fixture(scope="session")
+def demo_csv() -> Path:
+    return ROOT / "sample_tables" / "repair_jobs.csv"
