@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from rapidfuzz import fuzz
 
 from .errors import QuestionError
-from .load import ROW, TABLE, Column, Table
+from .load import ROW, Column, Table
 from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
 from .text import DateMention, Words, normalise, read_question, split_words, stem
 
@@ -431,9 +431,8 @@ def _has_value(table: Table, col: Column, value: float) -> bool:
         return False
     key = ("has", col.name, value)
     if key not in table.cache:
-        ident = '"' + col.name.replace('"', '""') + '"'
-        found = table.con.execute(
-            f'SELECT 1 FROM "{TABLE}" WHERE {ident} = ? LIMIT 1', [value]).fetchone()
+        from .sql import has_value
+        found = table.con.execute(has_value(col.name, _num(value))).fetchone()
         table.cache[key] = found is not None
     return table.cache[key]
 

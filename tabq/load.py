@@ -776,12 +776,14 @@ def _text_plan(i: int, header: str, name: str, raw: str, rows: list[tuple[str, i
             return _Plan(header, name, kind, f"{alias}.as_{sql_type}", alias, join,
                          nonnull=sum(counts[c][0] for c in real))
     found = derive_views([(c, counts[c][0]) for c in order]) if views else {}
-    plan = _Plan(header, name, "text", raw, nonnull=nonnull, distinct=len(order),
-                 values=tuple(order[:VALUE_CAP]), views=tuple(found))
-    if found or any(text != c for text, c in clean.items()):
+    # a placeholder in a text column is a missing cell too, so "no sex recorded" finds it
+    plan = _Plan(header, name, "text", raw, nonnull=sum(counts[c][0] for c in real),
+                 distinct=len(real), values=tuple(real[:VALUE_CAP]), views=tuple(found))
+    if found or len(real) < len(order) or any(text != c for text, c in clean.items()):
         keys = [text for text, c in clean.items() if c is not None]
         cells = [clean[k] for k in keys]
-        _add_mapping(mapping, i, keys, {"text": cells, **{
+        texts = [None if values.is_placeholder(c) else c for c in cells]
+        _add_mapping(mapping, i, keys, {"text": texts, **{
             view: [parsed.get(c) for c in cells] for view, parsed in found.items()}})
         plan.expr, plan.alias, plan.join = f"{alias}.text", alias, join
     return plan

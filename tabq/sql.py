@@ -215,3 +215,9 @@ def compile_form(form: L.Answer) -> exp.Expression:
 def render(form: L.Answer, dialect: str = "duckdb") -> str:
     """SQL text of a form, rendered once per form and dialect."""
     return compile_form(form).sql(dialect=dialect)
+
+
+def has_value(col: str, value: L.Literal) -> str:
+    """SQL that returns a row when some cell of `col` equals `value` (for value linking)."""
+    match = exp.EQ(this=column(col), expression=literal(value))
+    return _select(exp.Literal.number(1), where=match).limit(1, copy=False).sql(dialect="duckdb")

@@ -197,7 +197,9 @@ def test_text_cells_trimmed_and_profiled(messy):
     assert club.values == ("North", "South", "West")   # most frequent first, NBSP trimmed
     assert (club.kind, club.distinct, club.nulls) == ("text", 3, 0)
     distance = messy.column("distance")
-    assert distance.values[0] == "8.9 km (5.5 mi)" and "—" in distance.values
+    # the placeholder "—" is a missing cell, not a value
+    assert distance.values[0] == "8.9 km (5.5 mi)" and "—" not in distance.values
+    assert distance.nulls == 1
     assert messy.column("distance__number").nulls == 1
     assert messy.column("distance__number").minimum == 5.0
 
