@@ -47,6 +47,8 @@ class Denotation:
 
 def clean(value):
     """A DuckDB value as a plain Python value for people and JSON."""
+    if hasattr(value, "item") and not isinstance(value, (list, tuple, str, bytes)):
+        value = value.item()   # a numpy scalar
     if isinstance(value, decimal.Decimal):
         value = float(value)
     if isinstance(value, float):

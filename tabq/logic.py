@@ -364,6 +364,8 @@ class _Reader:
         self.label = lambda name: "row position" if name == "__row" else label(name)
 
     def read(self, form: Form) -> str:
+        if isinstance(form, Rows):
+            return "rows where " + self.cond(form)
         return getattr(self, form.tag)(form)
 
     def where(self, rows: Rows) -> str:

@@ -159,7 +159,8 @@ def _which_of(form: L.WhichOf) -> exp.Select:
     pair = exp.In(this=column(form.col), expressions=[literal(form.first), literal(form.second)])
     query = _select(column(form.col), where=pair).group_by(column(form.col), copy=False)
     order = exp.Ordered(this=aggregate(form.fn, form.measure), desc=form.direction == "max")
-    return query.order_by(order, copy=False).limit(1, copy=False)
+    first_seen = exp.Ordered(this=exp.Min(this=column(ROW)))   # ties: the one met first
+    return query.order_by(order, first_seen, copy=False).limit(1, copy=False)
 
 
 def _group_best(form: L.GroupBest) -> exp.Select:
@@ -177,13 +178,16 @@ def _group_best(form: L.GroupBest) -> exp.Select:
 def _group_top(form: L.GroupTop) -> exp.Select:
     order = exp.Ordered(this=aggregate(form.fn, form.measure), desc=form.direction == "max",
                         nulls_first=False)
-    return _grouped(form.key, form.rows).order_by(order, copy=False).limit(form.n, copy=False)
+    first_seen = exp.Ordered(this=exp.Min(this=column(ROW)))
+    return _grouped(form.key, form.rows).order_by(order, first_seen, copy=False).limit(
+        form.n, copy=False)
 
 
 def _top_n(form: L.TopN) -> exp.Select:
     query = _select(column(form.col), where=_not_null(form.by, form.rows))
     order = exp.Ordered(this=column(form.by), desc=form.direction == "max", nulls_first=False)
-    return query.order_by(order, copy=False).limit(form.n, copy=False)
+    return query.order_by(order, exp.Ordered(this=column(ROW)), copy=False).limit(
+        form.n, copy=False)
 
 
 def _yes_no(form: L.YesNo) -> exp.Select:
