@@ -1,0 +1,68 @@
+"""analyse, derive and features, each called alone on the demo tables."""
+
+import pytest
+import sqlglot
+
+import tabq
+from tabq import logic as L
+from tabq.analyse import analyse
+from tabq.derive import ANSWER_BEAM, MAX_SIZE, derive, rules
+from tabq.features import NODE_FEATURES, Step, fragments
+from tabq.model import Model
+
+
+@pytest.fixture(scope="module")
+def demo(demo_csv):
+    return tabq.open(demo_csv)
+
+
+def test_analyse_links_columns_values_numbers_and_dates(demo):
+    a = analyse("how many e-bike jobs at the wharf shed took more than 40 minutes in march 2025",
+                demo.table)
+    entities = {atom.value for atom in a.atoms["ENTITY"] if atom.span}
+    assert ("site", "Wharf Shed") in entities and ("bike_type", "E-bike") in entities
+    assert [atom.value for atom in a.atoms["NUMBER"]] == [40.0]
+    assert any(atom.value.month == 3 and atom.value.year == 2025 for atom in a.atoms["PERIOD"])
+    assert a.qtype == "how_many"
+
+
+def test_analyse_is_permissive_every_column_can_fill_a_column_slot(demo):
+    a = analyse("which one is it", demo.table)
+    assert {atom.value for atom in a.atoms["ANYCOL"]} == {
+        c.name for c in demo.table.columns if c.view is None}
+
+
+def test_empty_question_is_refused(demo):
+    with pytest.raises(tabq.TabqError):
+        analyse("  ?! ", demo.table)
+
+
+def test_every_rule_has_a_builder_and_the_beam_bounds_the_candidates(demo):
+    assert len(rules()) >= 30
+    items = derive(analyse("which mechanic has done the most jobs", demo.table), Model.prior())
+    assert 0 < len(items) <= ANSWER_BEAM * MAX_SIZE
+    assert all(isinstance(i.form, L.Answer) for i in items)
+    assert [i.score for i in items] == sorted((i.score for i in items), reverse=True)
+
+
+def test_candidate_scores_are_the_model_score_of_their_features(demo):
+    model = Model.prior()
+    for item in derive(analyse("average price of a full service", demo.table), model)[:20]:
+        assert item.score == pytest.approx(model.score(item.features()))
+
+
+def test_every_candidate_sql_reparses(demo):
+    result = demo.ask("how many jobs were not for members in 2025")
+    for reading in result.candidates:
+        assert sqlglot.parse_one(reading.sql, read="duckdb") is not None
+
+
+def test_fragments_name_the_operators_a_step_adds(demo):
+    a = analyse("average price", demo.table)
+    agg = next(x for x in a.atoms["AGG"] if x.value == "avg")
+    col = next(x for x in a.atoms["NUMCOL"] if x.value == "price")
+    assert fragments(Step("aggregate", (agg, col), ())) == ["avg"]
+    feats = {}
+    for fn in NODE_FEATURES:
+        feats.update(fn(a, Step("aggregate", (agg, col), ())))
+    assert feats["col:exact"] == 1.0 and feats["cover"] >= 1.0
