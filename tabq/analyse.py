@@ -55,6 +55,7 @@ class Analysis:
     wh_head: int = -1                  # the word after a leading "which" / "what", if any
     truncated: bool = False
     spans: dict = field(default_factory=dict)   # column name → span of its mention
+    cache: dict = field(default_factory=dict)   # per-question memo of feature dicts
 
 
 def analyse(question: str, table: Table) -> Analysis:

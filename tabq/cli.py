@@ -5,7 +5,6 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-from collections.abc import Callable
 from pathlib import Path
 
 from . import api
@@ -136,8 +135,6 @@ def _demo(args: argparse.Namespace) -> int:
     run_demo(print)
     return 0
 
-
-COMMANDS: dict[str, Callable] = {"ask": _ask, "demo": _demo}
 
 
 if __name__ == "__main__":

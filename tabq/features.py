@@ -97,7 +97,7 @@ def fragments(step: Step) -> list[str]:
 
 def lexical(analysis: Analysis, fragment: str) -> Features:
     """Every question word and phrase paired with a fragment: the learnable lexicon."""
-    cache = analysis.spans.setdefault("_lex", {})
+    cache = analysis.cache.setdefault("lex", {})
     if fragment not in cache:
         feats = {f"lex:{g}|{fragment}": 1.0 for g in analysis.grams}
         feats[f"op:{fragment}"] = 1.0
@@ -107,7 +107,7 @@ def lexical(analysis: Analysis, fragment: str) -> Features:
 
 def lexical_column(analysis: Analysis, col: str) -> Features:
     """Question words paired with a column: how the team's words name its columns."""
-    cache = analysis.spans.setdefault("_lexcol", {})
+    cache = analysis.cache.setdefault("lexcol", {})
     if col not in cache:
         cache[col] = {f"lexcol:{g}|{col}": 1.0 for g in analysis.grams if " " not in g}
     return cache[col]
