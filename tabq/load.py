@@ -380,7 +380,8 @@ def _read_json(con: _Con, path: Path, head: bytes, table: str | None) -> _Source
     """JSON lines or an array of objects: DuckDB's reader, Python's json module as a fallback."""
     try:
         con.execute("CREATE TABLE _src AS SELECT * FROM read_json(?)", [str(path)])
-        return _Source(_staging_names(con), path.stem)
+        if con.execute("SELECT count(*) FROM _src").fetchone()[0]:
+            return _Source(_staging_names(con), path.stem)
     except duckdb.Error as exc:
         if isinstance(exc, (duckdb.OutOfMemoryException, duckdb.InterruptException)):
             raise
@@ -423,14 +424,13 @@ def _read_xlsx(con: _Con, path: Path, head: bytes, table: str | None) -> _Source
             raise TableFileError(f"{name}: the workbook has no worksheets")
         chosen = _choose(list(sheets), table, name, "sheet") if table else next(iter(sheets))
         rows = (r for r in sheets[chosen].iter_rows(values_only=True)
-                if any(_cell_text(v) is not None for v in r))
+                if any(v is not None and v != "" for v in r))
         first = next(rows, None)
         if first is None:
             raise TableFileError(f"{name}: sheet {chosen!r} is empty")
-        header = [_cell_text(v) or "" for v in first]
+        header = ["" if v is None else str(v) for v in first]
         width = len(header)
-        _insert_rows(con, width,
-                     (([_cell_text(v) for v in r] + [None] * width)[:width] for r in rows))
+        _insert_rows(con, width, ((list(r) + [None] * width)[:width] for r in rows))
     finally:
         book.close()
     default = re.fullmatch(r"sheet\s*\d*", chosen.strip(), re.IGNORECASE)
@@ -456,9 +456,7 @@ def _read_sqlite(con: _Con, path: Path, head: bytes,
             else:
                 raise UnknownTableError(f"{name}: holds several tables, choose one: "
                                         f"{_listing(tables)}")
-            cursor = db.execute(f"SELECT * FROM {_ident(chosen)}")
-            headers = [d[0] for d in cursor.description]
-            _insert_rows(con, len(headers), _fetch_text(cursor))
+            headers = _copy_sqlite_table(con, db, chosen)
     except sqlite3.Error as exc:
         raise TableFileError(f"{name}: not a readable SQLite database ({_one_line(exc)})") from None
     return _Source(headers, chosen, chosen)
@@ -484,10 +482,27 @@ def _sqlite_open(path: Path) -> Iterator[sqlite3.Connection]:
             db.close()
 
 
-def _fetch_text(cursor: sqlite3.Cursor) -> Iterator[list[str | None]]:
+def _copy_sqlite_table(con: _Con, db: sqlite3.Connection, name: str) -> list[str]:
+    """The table's rows into `_src`; its column names. Text that is not valid UTF-8 is read
+    again with replacement characters rather than failing the whole table."""
+    sql = f"SELECT * FROM {_ident(name)}"
+    try:
+        cursor = db.execute(sql)
+        _insert_rows(con, len(cursor.description), _sqlite_rows(cursor))
+    except sqlite3.OperationalError as exc:
+        if "decode" not in str(exc):
+            raise
+        db.text_factory = lambda data: data.decode("utf-8", errors="replace")
+        cursor = db.execute(sql)
+        _insert_rows(con, len(cursor.description), _sqlite_rows(cursor))
+    return [d[0] for d in cursor.description]
+
+
+def _sqlite_rows(cursor: sqlite3.Cursor) -> Iterator[tuple | list]:
+    """Rows as sqlite3 gives them, except that BLOB cells (rare) become text."""
     while batch := cursor.fetchmany(_CHUNK):
         for row in batch:
-            yield [_cell_text(v) for v in row]
+            yield [_cell_text(v) for v in row] if bytes in map(type, row) else row
 
 
 def _choose(names: list[str], wanted: str, where: str, what: str) -> str:
@@ -508,13 +523,11 @@ def _listing(names: list[str], cap: int = 20) -> str:
 
 
 def _cell_text(value: object) -> str | None:
-    """A Python cell (Excel, SQLite, JSON) as text; _build types the column from all its cells."""
-    if value is None:
-        return None
+    """A JSON value or SQLite BLOB as text (the csv module writes other cells well enough)."""
+    if value is None or isinstance(value, str):
+        return value
     if isinstance(value, bool):
         return "true" if value else "false"
-    if isinstance(value, float) and value.is_integer() and abs(value) < 2**53:
-        return str(int(value))
     if isinstance(value, bytes):
         try:
             return value.decode("utf-8")
@@ -522,27 +535,22 @@ def _cell_text(value: object) -> str | None:
             return value.hex()
     if isinstance(value, (dict, list)):
         return json.dumps(value, ensure_ascii=False)
-    if hasattr(value, "isoformat"):   # date, datetime, time
-        return value.isoformat()
     return str(value)
 
 
-def _insert_rows(con: _Con, width: int,
-                 rows: Iterable[list[str | None]]) -> None:
-    """Rows of text into `_src` in order, a chunk at a time as parallel lists (one statement per
-    chunk: executemany would insert row by row, a thousand times slower)."""
-    if width == 0:
-        raise TableFileError("no columns")   # callers check first; kept as a guard
-    con.execute(f"CREATE TABLE _src ({', '.join(f'c{i} VARCHAR' for i in range(width))})")
-    insert = f"INSERT INTO _src SELECT {', '.join(['unnest(?::VARCHAR[])'] * width)}"
-    batch: list[list[str | None]] = []
-    for row in rows:
-        batch.append(row)
-        if len(batch) == _CHUNK:
-            con.execute(insert, [list(col) for col in zip(*batch, strict=True)])
-            batch = []
-    if batch:
-        con.execute(insert, [list(col) for col in zip(*batch, strict=True)])
+def _insert_rows(con: _Con, width: int, rows: Iterable[list]) -> None:
+    """Rows from a Python reader into `_src` as text, in order. They pass through a CSV file in
+    a temporary folder, written by the csv module and read by DuckDB: both are C code, many
+    times faster than handing DuckDB Python lists cell by cell. Rows must have `width` cells;
+    cells are text, numbers, booleans, dates or None, and _build types the columns later."""
+    columns = {f"c{i}": "VARCHAR" for i in range(width)}
+    with tempfile.TemporaryDirectory(prefix="tabq-") as tmp:
+        staged = Path(tmp) / "rows.csv"
+        with staged.open("w", encoding="utf-8", errors="replace", newline="") as f:
+            csv.writer(f, lineterminator="\n").writerows(rows)
+        con.execute("CREATE TABLE _src AS SELECT * FROM read_csv(?, columns = ?, header = false, "
+                    "auto_detect = false, delim = ',', quote = '\"', escape = '\"', "
+                    "new_line = '\\n', max_line_size = ?)", [str(staged), columns, 1 << 30])
 
 
 def _staging_names(con: _Con) -> list[str]:
@@ -960,12 +968,13 @@ def _bool_values(con: _Con, col: Column) -> tuple[str, ...]:
 
 
 _TOTAL_LABEL = re.compile(r"(?:grand |overall )?totals?(?: \(.*\))?")
-_FIRST_TOTAL_LABEL = re.compile(r"sum|all|(?:grand |overall )?totals?(?: \(.*\))?")
+_FIRST_TOTAL_LABEL = re.compile(r"sum|all|(?:grand |overall )?totals?\b.*|.*\btotals?")
 
 
 def _total_row(con: _Con, plans: list[_Plan], row_count: int) -> int | None:
-    """ROW of a last row labelled "Total", "Totals", "Grand total" (any text cell), or "Sum" or
-    "All" (its first text cell): such a row would be counted and summed with the others."""
+    """ROW of a last row labelled "Total", "Totals", "Grand total" in any text cell, or in its
+    first text cell "Sum", "All", "Total seats", "Career total" and the like: such a row would be
+    counted and summed with the others. (A last row titled "Total Recall" is taken too.)"""
     texts = [_ident(p.name) for p in plans if p.kind == "text"]
     if row_count < 2 or not texts:
         return None

@@ -266,6 +266,8 @@ def test_total_row(tmp_path):
     assert load_table(write(tmp_path / "medals.csv", text)).total_row == 2
     text = "Rank,Nation,Gold\n1,Arvel,3\n2,Bront,2\n,Grand total:,5\n"
     assert load_table(write(tmp_path / "medals2.csv", text)).total_row == 2
+    text = "Season,Team,Goals\n2001,Arvel,3\n2002,Bront,2\nCareer totals,,5\n"
+    assert load_table(write(tmp_path / "career.csv", text)).total_row == 2
     text = "Nation,Gold\nArvel,3\nTotal,5\nBront,2\n"
     assert load_table(write(tmp_path / "medals3.csv", text)).total_row is None
     assert load_table(write(tmp_path / "film.csv", "Film,Year\nTotal Recall,1990\nAll Ears,"
@@ -341,6 +343,7 @@ def test_json_lines_and_array(tmp_path):
 
 def test_bad_json(tmp_path):
     assert "JSON" in fail(write(tmp_path / "bad.json", "{not json"))
+    assert "JSON" in fail(write(tmp_path / "none.json", "[]"))
 
 
 def make_workbook(path):
@@ -397,6 +400,17 @@ def test_sqlite(tmp_path):
     assert rows(fees, f"SELECT club, fee FROM {TABLE}") == [("North", 10)]
     assert fees.fingerprint != load_table(path, table='run"s').fingerprint
     fail(path, UnknownTableError, table="prices")
+
+
+def test_sqlite_odd_cells(tmp_path):
+    path = tmp_path / "odd.db"
+    with sqlite3.connect(path) as db:
+        db.execute("CREATE TABLE a (x)")
+        db.executemany("INSERT INTO a VALUES (?)", [(b"\x00\xff",), (3,), (2.5,), ("Zoë",)])
+        db.execute("INSERT INTO a VALUES (CAST(X'FF41' AS TEXT))")   # not valid UTF-8
+    db.close()
+    got = rows(load_table(path), f"SELECT x FROM {TABLE} ORDER BY {ROW}")
+    assert got == [("00ff",), ("3",), ("2.5",), ("Zoë",), ("\ufffdA",)]
 
 
 def test_sqlite_wal_leaves_no_files(tmp_path):
