@@ -678,6 +678,7 @@ _RETYPES = (
      "CASE lower({e}) WHEN 'true' THEN true WHEN 'false' THEN false END"),
 )
 # The columns of the mapping table `_m`: which column, which raw text, and what it becomes.
+_PLACEHOLDERS = "[" + ", ".join(_literal(p) for p in sorted(values.PLACEHOLDERS)) + "]"
 _MAPPED = {"col": "INTEGER", "k": "VARCHAR", "text": "VARCHAR", **_VIEW_TYPES,
            **{f"as_{t}": t for _, t, _, _ in _RETYPES}}
 
@@ -773,7 +774,7 @@ def _text_plan(i: int, header: str, name: str, raw: str, rows: list[tuple[str, i
             seen[1] = min(seen[1], first)
     order = sorted(counts, key=lambda c: (-counts[c][0], counts[c][1]))
     real = [c for c in order if not values.is_placeholder(c)]
-    alias, nonnull = f"_m{i}", sum(n for n, _ in counts.values())
+    alias = f"_m{i}"
     join = f"LEFT JOIN _m AS {alias} ON {alias}.col = {i} AND {alias}.k = {raw}"
     # Placeholders ("—", "n/a", "NA") are missing values: they do not keep a number column text.
     for kind, sql_type, convert, _ in _RETYPES:
@@ -816,28 +817,25 @@ def _add_mapping(mapping: dict[str, list], col: int, keys: list[str],
 
 
 def _varied_text_plan(con: _Con, header: str, name: str, raw: str) -> _Plan:
-    """A text column with more than VIEW_DISTINCT_CAP distinct texts (ids, free text): trimmed
-    and retyped in SQL, profiled from one GROUP BY, and given no views (parsing each of its
-    texts in Python would cost seconds)."""
-    text = f"NULLIF(trim({raw}, {_literal(values.SPACES)}), '')"
+    """A text column with more than VIEW_DISTINCT_CAP distinct texts (ids, free text): trimmed,
+    placeholders made missing and retyped in SQL, profiled from one GROUP BY, and given no views
+    (parsing each of its texts in Python would cost seconds)."""
+    trimmed = f"NULLIF(trim({raw}, {_literal(values.SPACES)}), '')"
     con.execute(f"CREATE OR REPLACE TABLE _vc AS SELECT v, count(*) AS n, min(r) AS first "
-                f"FROM (SELECT {text} AS v, _src.rowid AS r FROM _src) "
-                "WHERE v IS NOT NULL GROUP BY v")
+                f"FROM (SELECT {trimmed} AS v, _src.rowid AS r FROM _src) "
+                f"WHERE v IS NOT NULL AND NOT list_contains({_PLACEHOLDERS}, lower(v)) GROUP BY v")
     top = [v for (v,) in con.execute("SELECT v FROM _vc ORDER BY n DESC, first LIMIT ?",
                                      [VALUE_CAP]).fetchall()]
     distinct, nonnull = con.execute("SELECT count(*), coalesce(sum(n), 0) FROM _vc").fetchone()
     # The most frequent texts rule most types out at once; SQL checks the others on every text.
-    sample = [v for v in top if not values.is_placeholder(v)]
-    real = "NOT list_contains(?, lower(v))"
     for kind, _, convert, sql in _RETYPES:
-        if not sample or _convert_all(convert, sample) is None:
+        if not top or _convert_all(convert, top) is None:
             continue
-        cells, misfits = con.execute(
-            f"SELECT coalesce(sum(n) FILTER (WHERE {real}), 0), count(*) FILTER (WHERE {real} "
-            f"AND ({sql.replace('{e}', 'v')}) IS NULL) FROM _vc",
-            [sorted(values.PLACEHOLDERS)] * 2).fetchone()
-        if cells and not misfits:
-            return _Plan(header, name, kind, sql.replace("{e}", text), nonnull=cells)
+        misfits = f"SELECT count(*) FROM _vc WHERE ({sql.replace('{e}', 'v')}) IS NULL"
+        if not con.execute(misfits).fetchone()[0]:
+            return _Plan(header, name, kind, sql.replace("{e}", trimmed), nonnull=nonnull)
+    text = (f"CASE WHEN list_contains({_PLACEHOLDERS}, lower({trimmed})) THEN NULL "
+            f"ELSE {trimmed} END")
     return _Plan(header, name, "text", text, nonnull=nonnull, distinct=distinct,
                  values=tuple(top))
 

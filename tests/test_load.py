@@ -235,11 +235,13 @@ def test_varied_text_columns_use_sql(tmp_path, monkeypatch):
     # Above VIEW_DISTINCT_CAP distinct texts a column is trimmed and retyped in SQL, with no views.
     monkeypatch.setattr(load, "VIEW_DISTINCT_CAP", 3)
     path = write(tmp_path / "varied.csv",
-                 "a,b\n 1 ,x 1\n2,x 2\n—,x 3\n4,x 4\n5,x 4\n")
+                 "a,b\n 1 ,x 1\n2,x 2\n—,x 3\n4,x 4\n5,x 4\n6,n/a\n")
     table = load_table(path)
     assert [(c.name, c.kind) for c in table.columns] == [("a", "number"), ("b", "text")]
-    assert rows(table, f"SELECT a FROM {TABLE} ORDER BY {ROW}") == [(1,), (2,), (None,), (4,), (5,)]
-    assert table.column("b").values[0] == "x 4" and table.column("b").distinct == 4
+    assert rows(table, f"SELECT a, b FROM {TABLE} ORDER BY {ROW}") == [
+        (1, "x 1"), (2, "x 2"), (None, "x 3"), (4, "x 4"), (5, "x 4"), (6, None)]
+    b = table.column("b")
+    assert (b.values[0], b.distinct, b.nulls) == ("x 4", 4, 1)
 
 
 # ---------------------------------------------------------------- rows: order, empties, totals
