@@ -818,26 +818,38 @@ def _add_mapping(mapping: dict[str, list], col: int, keys: list[str],
 
 def _varied_text_plan(con: _Con, header: str, name: str, raw: str) -> _Plan:
     """A text column with more than VIEW_DISTINCT_CAP distinct texts (ids, free text): trimmed,
-    placeholders made missing and retyped in SQL, profiled from one GROUP BY, and given no views
-    (parsing each of its texts in Python would cost seconds)."""
-    trimmed = f"NULLIF(trim({raw}, {_literal(values.SPACES)}), '')"
-    con.execute(f"CREATE OR REPLACE TABLE _vc AS SELECT v, count(*) AS n, min(r) AS first "
-                f"FROM (SELECT {trimmed} AS v, _src.rowid AS r FROM _src) "
-                f"WHERE v IS NOT NULL AND NOT list_contains({_PLACEHOLDERS}, lower(v)) GROUP BY v")
-    top = [v for (v,) in con.execute("SELECT v FROM _vc ORDER BY n DESC, first LIMIT ?",
-                                     [VALUE_CAP]).fetchall()]
-    distinct, nonnull = con.execute("SELECT count(*), coalesce(sum(n), 0) FROM _vc").fetchone()
+    placeholders made missing and retyped in SQL, profiled from its distinct texts, and given no
+    views (parsing each of its texts in Python would cost seconds). Trimming and the placeholder
+    test are applied to each row only if some distinct text needs them."""
+    con.execute(f"CREATE OR REPLACE TABLE _vc AS SELECT raw, n, first, {_trimmed('raw')} AS v, "
+                f"coalesce(list_contains({_PLACEHOLDERS}, lower({_trimmed('raw')})), false) "
+                "AS missing "
+                f"FROM (SELECT {raw} AS raw, count(*) AS n, min(_src.rowid) AS first FROM _src "
+                "WHERE raw IS NOT NULL GROUP BY 1)")
+    trimmed, missing = con.execute(
+        "SELECT bool_or(v IS DISTINCT FROM raw), bool_or(missing) FROM _vc").fetchone()
+    real = "FROM _vc WHERE v IS NOT NULL AND NOT missing"
+    top = [v for (v,) in con.execute(f"SELECT v {real} GROUP BY v ORDER BY sum(n) DESC, "
+                                     "min(first) LIMIT ?", [VALUE_CAP]).fetchall()]
+    distinct, nonnull = con.execute(f"SELECT count(DISTINCT v), coalesce(sum(n), 0) {real}"
+                                    ).fetchone()
+    text = _trimmed(raw) if trimmed else raw
     # The most frequent texts rule most types out at once; SQL checks the others on every text.
     for kind, _, convert, sql in _RETYPES:
         if not top or _convert_all(convert, top) is None:
             continue
-        misfits = f"SELECT count(*) FROM _vc WHERE ({sql.replace('{e}', 'v')}) IS NULL"
+        misfits = f"SELECT count(*) {real} AND ({sql.replace('{e}', 'v')}) IS NULL"
         if not con.execute(misfits).fetchone()[0]:
-            return _Plan(header, name, kind, sql.replace("{e}", trimmed), nonnull=nonnull)
-    text = (f"CASE WHEN list_contains({_PLACEHOLDERS}, lower({trimmed})) THEN NULL "
-            f"ELSE {trimmed} END")
+            return _Plan(header, name, kind, sql.replace("{e}", text), nonnull=nonnull)
+    if missing:
+        text = f"CASE WHEN list_contains({_PLACEHOLDERS}, lower({text})) THEN NULL ELSE {text} END"
     return _Plan(header, name, "text", text, nonnull=nonnull, distinct=distinct,
                  values=tuple(top))
+
+
+def _trimmed(expr: str) -> str:
+    """SQL for a text without outer whitespace or NBSP; None if nothing is left."""
+    return f"NULLIF(trim({expr}, {_literal(values.SPACES)}), '')"
 
 
 def derive_views(counts: list[tuple[str, int]]) -> dict[str, dict[str, object]]:

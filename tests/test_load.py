@@ -235,7 +235,7 @@ def test_varied_text_columns_use_sql(tmp_path, monkeypatch):
     # Above VIEW_DISTINCT_CAP distinct texts a column is trimmed and retyped in SQL, with no views.
     monkeypatch.setattr(load, "VIEW_DISTINCT_CAP", 3)
     path = write(tmp_path / "varied.csv",
-                 "a,b\n 1 ,x 1\n2,x 2\n—,x 3\n4,x 4\n5,x 4\n6,n/a\n")
+                 "a,b\n 1 ,x 1\n2,x 2\n—,\u00a0x 3 \n4,x 4\n5,x 4\n6,n/a\n")
     table = load_table(path)
     assert [(c.name, c.kind) for c in table.columns] == [("a", "number"), ("b", "text")]
     assert rows(table, f"SELECT a, b FROM {TABLE} ORDER BY {ROW}") == [
@@ -304,6 +304,11 @@ def test_rowid_header_and_multiline_cells(tmp_path):
     table = load_table(path)
     assert rows(table, f"SELECT {ROW}, rowid, note FROM {TABLE} ORDER BY {ROW}") == \
         [(0, 10, "two\nlines"), (1, 20, "plain")]
+
+
+def test_byte_order_mark(tmp_path):
+    table = load_table(write(tmp_path / "bom.csv", "\ufeffName,Age\nAda,36\n"))
+    assert [c.header for c in table.columns] == ["Name", "Age"] and names(table) == ["name", "age"]
 
 
 def test_legacy_encodings(tmp_path):
@@ -522,8 +527,10 @@ def test_external_access_blocked(tmp_path):
         with pytest.raises(duckdb.Error):
             table.con.execute(sql)
     assert not target.exists() and not (tmp_path / "x.db").exists()
-    settings = rows(table, "SELECT current_setting('threads'), current_setting('temp_directory')")
-    assert settings == [(load.THREADS, "")]
+    threads, spill, memory = rows(table, "SELECT current_setting('threads'), "
+                                  "current_setting('temp_directory'), "
+                                  "current_setting('memory_limit')")[0]
+    assert (threads, spill, memory) == (load.THREADS, "", "3.7 GiB")   # 4GB, as DuckDB shows it
     assert rows(table, f"SELECT count(*) FROM {TABLE}") == [(1,)]
 
 
