@@ -677,8 +677,9 @@ _RETYPES = (
     ("bool", "BOOLEAN", _to_bool,
      "CASE lower({e}) WHEN 'true' THEN true WHEN 'false' THEN false END"),
 )
-# The columns of the mapping table `_m`: which column, which raw text, and what it becomes.
+# values.PLACEHOLDERS as a DuckDB list literal (this module's constants, not user text).
 _PLACEHOLDERS = "[" + ", ".join(_literal(p) for p in sorted(values.PLACEHOLDERS)) + "]"
+# The columns of the mapping table `_m`: which column, which raw text, and what it becomes.
 _MAPPED = {"col": "INTEGER", "k": "VARCHAR", "text": "VARCHAR", **_VIEW_TYPES,
            **{f"as_{t}": t for _, t, _, _ in _RETYPES}}
 
