@@ -20,7 +20,7 @@ from .features import ANSWER_FEATURES
 from .load import Table, load_table
 from .model import Model
 from .sql import render
-from .store import load_model
+from .store import load_model  # noqa: F401 (re-exported for the CLI)
 
 EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
 UNSURE = 0.5            # below this share of probability the top answer is flagged

@@ -12,6 +12,8 @@ from .errors import TabqError
 
 EXAMPLES = {
     "ask": 'tabq ask sample_tables/repair_jobs.csv "how many jobs were cancelled"',
+    "teach": "tabq teach sample_tables/repair_jobs.csv confirmed.jsonl --model team-model",
+    "eval": "tabq eval test.jsonl --train train.jsonl --model /tmp/m --predictions out.jsonl",
     "demo": "tabq demo",
 }
 
@@ -37,12 +39,50 @@ def _parser() -> argparse.ArgumentParser:
     ask.add_argument("--json", action="store_true", help="print JSON instead of text")
     ask.set_defaults(run=_ask)
 
+    teach = commands.add_parser(
+        "teach", help="learn from confirmed answers",
+        description="Learn from confirmed answers: lines {\"question\", \"answer\"} about one "
+        "table. Each is logged in the model folder; the model learns at once.",
+        epilog=f"example: {EXAMPLES['teach']}")
+    teach.add_argument("table", help="the table the questions are about")
+    teach.add_argument("examples", help="a JSON-lines file of {\"question\", \"answer\"}")
+    teach.add_argument("--model", metavar="DIR",
+                       help="the model folder (default: your per-user tabq folder)")
+    _learning_options(teach)
+    teach.set_defaults(run=_teach)
+
+    evaluate = commands.add_parser(
+        "eval", help="measure accuracy on examples with known answers",
+        description="Answer every example {\"id\", \"question\", \"table\", \"answer\"} "
+        "and report accuracy, oracle coverage (a right answer among the candidates), a "
+        "breakdown by \"kind\" and time per question. With --train, learn first.",
+        epilog=f"example: {EXAMPLES['eval']}")
+    evaluate.add_argument("examples", help="JSON lines; \"table\" is relative to this file")
+    evaluate.add_argument("--train", metavar="TRAIN", help="learn from these examples first")
+    evaluate.add_argument("--model", metavar="DIR",
+                          help="a model folder to start from (and to save to with --train)")
+    evaluate.add_argument("--predictions", metavar="OUT",
+                          help='write {"id", "answer", "sql"} a line')
+    evaluate.add_argument("--json", action="store_true", help="print the report as JSON")
+    _learning_options(evaluate)
+    evaluate.set_defaults(run=_eval)
+
     demo = commands.add_parser("demo", help="ask the demo tables a few questions",
                                description="Ask the invented demo tables (a community bike "
                                "workshop) a few questions and show the answers with their SQL.",
                                epilog=f"example: {EXAMPLES['demo']}")
     demo.set_defaults(run=_demo)
     return parser
+
+
+def _learning_options(parser: argparse.ArgumentParser) -> None:
+    from .learn import OBJECTIVES
+    from .teaching import DEFAULT_OBJECTIVE, EPOCHS
+    parser.add_argument("--objective", choices=OBJECTIVES, default=DEFAULT_OBJECTIVE,
+                        help=f"how to learn (default {DEFAULT_OBJECTIVE})")
+    parser.add_argument("--epochs", type=int, default=EPOCHS, help=f"passes (default {EPOCHS})")
+    parser.add_argument("--workers", type=int, default=None,
+                        help="processes for candidate search (default: up to 2)")
 
 
 def _version() -> str:
@@ -128,6 +168,60 @@ def format_result(result: api.Result, top: int = 3) -> str:
             lines.append(f"  {format_answer(reading, 6)}  ({reading.probability:.0%}) — "
                          f"{reading.paraphrase}")
     return "\n".join(lines)
+
+
+def _teach(args: argparse.Namespace) -> int:
+    from .store import ModelFolder
+    from .teaching import read_examples, teach
+    api.load_table(args.table)  # a bad table is refused before anything is logged
+    jobs = read_examples(args.examples, table=args.table)
+    folder = ModelFolder(args.model)
+    report = teach(folder, jobs, args.objective, args.epochs, args.workers)
+    print(f"taught {report.taught} confirmations ({report.reachable} with a reading that gives "
+          f"the answer; {report.replayed} earlier ones replayed) into {folder.path}")
+    for skipped in report.skipped:
+        print(f"  skipped {skipped}", file=sys.stderr)
+    return 0
+
+
+def _eval(args: argparse.Namespace) -> int:
+    import time as _time
+
+    from .store import ModelFolder
+    from .teaching import evaluate, learn_from, read_examples, write_predictions
+    jobs = read_examples(args.examples)
+    train_jobs = read_examples(args.train) if args.train else []
+    folder = ModelFolder(args.model) if args.model else None
+    model = folder.load() if folder else api.load_model(None)
+    trained = None
+    if train_jobs:
+        start = _time.perf_counter()
+        model, report, _ = learn_from(model, train_jobs, args.objective, args.epochs,
+                                      args.workers)
+        trained = {"examples": report.taught, "oracle": report.reachable / max(report.taught, 1),
+                   "seconds": round(_time.perf_counter() - start, 1)}
+        if folder:
+            folder.save(model, objective=args.objective, trained_on=str(args.train))
+    result = evaluate(model, jobs, args.workers)
+    if args.predictions:
+        write_predictions(args.predictions, jobs, result)
+    summary = {"examples": result.examples, "accuracy": round(result.accuracy, 4),
+               "oracle": round(result.oracle, 4),
+               "seconds_per_question": round(result.seconds_per_question, 3),
+               "by_kind": {k: {"right": r, "of": n} for k, (r, n) in result.by_kind.items()},
+               **({"training": trained} if trained else {})}
+    if args.json:
+        print(json.dumps(summary, indent=2))
+        return 0
+    if trained:
+        print(f"trained on {trained['examples']} examples in {trained['seconds']} s "
+              f"(oracle coverage {trained['oracle']:.1%})")
+    print(f"accuracy {result.accuracy:.1%} ({round(result.accuracy * result.examples)}/"
+          f"{result.examples}); oracle coverage {result.oracle:.1%}; "
+          f"{result.seconds_per_question * 1000:.0f} ms per question")
+    for kind, (right, n) in result.by_kind.items():
+        print(f"  {kind:18s} {right:4d}/{n:<4d} {right / n:.0%}")
+    return 0
 
 
 def _demo(args: argparse.Namespace) -> int:

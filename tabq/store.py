@@ -1,39 +1,163 @@
-"""store: the model folder — weights learned on top of the prior.
+"""store: the model folder — learned weights, the log of confirmations, a lock.
 
-The folder holds `weights.json` (`{"format": "tabq-weights", "version": 1, "weights": {...}}`).
-No folder, or a folder with no weights yet, means the untaught prior.
+    weights.json    {"format": "tabq-weights", "version": 1, "learned": {...}, ...} — what
+                    teaching moved, as offsets from the prior (so a better prior in a later
+                    tabq still reaches a taught model)
+    log.jsonl       one confirmation a line, append-only: question, table, fingerprint,
+                    answer, chosen query, time, batch
+    lock            held (flock) while a process reads, learns and writes
+
+Weights are written to a temporary file and renamed over the old one, so a kill at any moment
+leaves either the old or the new weights. A log line is written whole with one write and synced
+before anyone is told it was saved; a torn last line (a kill mid-write) is ignored on reading,
+a damaged line anywhere else is an error — the log is never rewritten silently.
 """
 
 from __future__ import annotations
 
+import contextlib
+import fcntl
 import json
+import os
+import tempfile
+from collections.abc import Iterator
 from pathlib import Path
+
+import platformdirs
 
 from .errors import ModelError
 from .model import FORMAT_VERSION, Model
 
 WEIGHTS = "weights.json"
+LOG = "log.jsonl"
+LOCK = "lock"
+FORMAT = "tabq-weights"
+KNOWN = {WEIGHTS, LOG, LOCK}
+
+
+def default_folder() -> Path:
+    """The per-user model folder, used when no --model is given to a command that teaches."""
+    return Path(platformdirs.user_data_dir("tabq", appauthor=False)) / "model"
+
+
+class ModelFolder:
+    """One model on disk. Read it with `load`; teach under `locked()`."""
+
+    def __init__(self, path: str | Path | None = None):
+        self.path = Path(path) if path is not None else default_folder()
+        if self.path.exists() and not self.path.is_dir():
+            raise ModelError(f"{self.path}: a model must be a folder, this is a file")
+
+    # ── weights ────────────────────────────────────────────────────────────────────────────
+    def load(self) -> Model:
+        """The model in the folder: the prior when nothing was learned yet."""
+        path = self.path / WEIGHTS
+        if not path.exists():
+            return Model.prior()
+        try:
+            data = json.loads(path.read_text(encoding="utf-8"))
+        except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
+            raise ModelError(f"{path}: not a readable tabq weights file "
+                             f"({err.__class__.__name__}); it was left as it is") from err
+        if not isinstance(data, dict) or data.get("format") != FORMAT:
+            raise ModelError(f"{path}: not a tabq weights file; it was left as it is")
+        if data.get("version") != FORMAT_VERSION:
+            raise ModelError(f"{path}: weights format version {data.get('version')!r}; this "
+                             f"tabq reads version {FORMAT_VERSION}")
+        learned = data.get("learned")
+        if not isinstance(learned, dict) or not all(
+                isinstance(k, str) and isinstance(v, (int, float)) and not isinstance(v, bool)
+                for k, v in learned.items()):
+            raise ModelError(f"{path}: learned weights must map feature names to numbers")
+        model = Model.prior()
+        model.update(learned)
+        return model
+
+    def save(self, model: Model, **meta) -> None:
+        """Write the weights atomically (temporary file, fsync, rename)."""
+        self.path.mkdir(parents=True, exist_ok=True)
+        prior = Model.prior()
+        learned = {k: round(v - prior.weight(k), 9) for k, v in sorted(model.items())}
+        data = {"format": FORMAT, "version": FORMAT_VERSION, **meta,
+                "learned": {k: v for k, v in learned.items() if v != 0.0}}
+        _atomic_write(self.path / WEIGHTS, json.dumps(data, ensure_ascii=False, indent=0))
+
+    # ── log ────────────────────────────────────────────────────────────────────────────────
+    def read_log(self) -> list[dict]:
+        path = self.path / LOG
+        if not path.exists():
+            return []
+        try:
+            lines = path.read_text(encoding="utf-8").split("\n")
+        except (OSError, UnicodeDecodeError) as err:
+            raise ModelError(f"{path}: the log cannot be read ({err.__class__.__name__})") from err
+        records = []
+        for number, line in enumerate(lines, 1):
+            if not line.strip():
+                continue
+            try:
+                record = json.loads(line)
+            except json.JSONDecodeError:
+                if number == len(lines):   # torn last line: a write that never completed
+                    break
+                raise ModelError(f"{path}: line {number} is damaged; the log was left as it is")
+            if not isinstance(record, dict):
+                raise ModelError(f"{path}: line {number} is not a confirmation")
+            records.append(record)
+        return records
+
+    def append_log(self, records: list[dict]) -> None:
+        """Add confirmations to the log: one write, then fsync, before returning."""
+        if not records:
+            return
+        self.path.mkdir(parents=True, exist_ok=True)
+        text = "".join(json.dumps(r, ensure_ascii=False) + "\n" for r in records)
+        path = self.path / LOG
+        with open(path, "ab") as f:
+            if f.tell() and not _ends_with_newline(path):
+                f.write(b"\n")          # never glue a record to a torn line
+            f.write(text.encode("utf-8"))
+            f.flush()
+            os.fsync(f.fileno())
+
+    # ── lock ───────────────────────────────────────────────────────────────────────────────
+    @contextlib.contextmanager
+    def locked(self) -> Iterator[ModelFolder]:
+        """Hold the folder for one read-learn-write: other teachers wait, nothing is lost."""
+        self.path.mkdir(parents=True, exist_ok=True)
+        foreign = [p.name for p in self.path.iterdir()
+                   if p.name not in KNOWN and not p.name.startswith(".tmp-")]
+        if foreign and not (self.path / WEIGHTS).exists() and not (self.path / LOG).exists():
+            raise ModelError(f"{self.path}: not a tabq model folder (it holds {foreign[0]!r}); "
+                             "choose an empty or new folder")
+        with open(self.path / LOCK, "a+") as handle:
+            fcntl.flock(handle, fcntl.LOCK_EX)
+            try:
+                yield self
+            finally:
+                fcntl.flock(handle, fcntl.LOCK_UN)
+
+
+def _ends_with_newline(path: Path) -> bool:
+    with open(path, "rb") as f:
+        f.seek(-1, os.SEEK_END)
+        return f.read(1) == b"\n"
+
+
+def _atomic_write(path: Path, text: str) -> None:
+    fd, tmp = tempfile.mkstemp(prefix=".tmp-", dir=path.parent)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as f:
+            f.write(text)
+            f.flush()
+            os.fsync(f.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        with contextlib.suppress(OSError):
+            os.unlink(tmp)
+        raise
 
 
 def load_model(folder: str | Path | None) -> Model:
-    """The model in a folder: the prior plus what was learned there."""
-    model = Model.prior()
-    if folder is None:
-        return model
-    path = Path(folder) / WEIGHTS
-    if not path.exists():
-        return model
-    try:
-        data = json.loads(path.read_text(encoding="utf-8"))
-    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
-        raise ModelError(f"{path}: not a tabq weights file ({err.__class__.__name__})") from err
-    if not isinstance(data, dict) or data.get("format") != "tabq-weights":
-        raise ModelError(f"{path}: not a tabq weights file")
-    if data.get("version") != FORMAT_VERSION:
-        raise ModelError(f"{path}: weights format version {data.get('version')!r}, "
-                         f"this tabq reads version {FORMAT_VERSION}")
-    weights = data.get("weights")
-    if not isinstance(weights, dict) or not all(
-            isinstance(v, (int, float)) for v in weights.values()):
-        raise ModelError(f"{path}: weights must map feature names to numbers")
-    return Model(weights)
+    """The model a command asks with: the prior when no folder is given or nothing is learned."""
+    return Model.prior() if folder is None else ModelFolder(folder).load()

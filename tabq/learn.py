@@ -1,0 +1,215 @@
+"""learn: weights from (question, table, confirmed answer) alone — the query is never given.
+
+For each example the current model proposes candidates (derive + execute); the ones whose answer
+matches the confirmed one are the consistent set. Two objectives move the weights:
+
+- `hinge`: the latent structured hinge with stochastic subgradient steps. Target = the best-scoring
+  consistent candidate; rival = argmax of score + cost (cost 1 when its answer differs);
+  w += η(φ(target) − φ(rival)); shuffled passes, averaged weights.
+- `likelihood`: maximum marginal likelihood of the consistent set, AdaGrad steps with an L1
+  penalty that pulls learned changes back toward the prior.
+
+Learning only ever changes an offset from the prior, so an untaught word keeps its prior reading.
+An example with no consistent candidate makes no update; it is counted (oracle coverage).
+"""
+
+from __future__ import annotations
+
+import random
+from collections.abc import Callable, Iterable
+from dataclasses import dataclass
+
+import numpy as np
+
+from .answers import matches
+from .api import OpenTable
+from .model import Model
+
+OBJECTIVES = ("hinge", "likelihood")
+TRAIN_EXECUTE = 100      # candidates executed per training example (more than when answering)
+
+
+@dataclass
+class Example:
+    """One confirmed answer and the candidates the model found for it, as sparse vectors."""
+
+    question: str
+    gold: list
+    forms: list[str]            # canonical text of each candidate
+    sizes: list[int]
+    features: list[dict[str, float]]
+    correct: list[bool]
+
+    @property
+    def reachable(self) -> bool:
+        return any(self.correct)
+
+
+def candidates(table: OpenTable, question: str, gold: list,
+               execute: int = TRAIN_EXECUTE) -> Example:
+    """The model's candidates for a question, each marked by whether it gives the gold answer."""
+    result = table.ask(question, execute=execute)
+    cands = result.candidates
+    return Example(question, list(gold), [str(c.form) for c in cands],
+                   [_size(c.form) for c in cands], [c.features for c in cands],
+                   [not c.error and matches(c.answer, gold) for c in cands])
+
+
+def _size(form) -> int:
+    from .logic import size
+    return size(form)
+
+
+@dataclass
+class Packed:
+    """An example's features as flat arrays: candidate i owns idx[start[i]:start[i+1]]."""
+
+    idx: np.ndarray
+    val: np.ndarray
+    start: np.ndarray
+    correct: np.ndarray
+    sizes: np.ndarray
+
+    def scores(self, w: np.ndarray) -> np.ndarray:
+        if len(self.idx) == 0:
+            return np.zeros(len(self.correct))
+        return np.add.reduceat(w[self.idx] * self.val, self.start[:-1]) if len(
+            self.start) > 1 else np.zeros(0)
+
+    def phi(self, i: int, dim: int) -> tuple[np.ndarray, np.ndarray]:
+        a, b = self.start[i], self.start[i + 1]
+        return self.idx[a:b], self.val[a:b]
+
+
+def pack(example: Example, model: Model) -> Packed:
+    """Index every feature in the model (new ones start at zero) and flatten the example."""
+    new = {name: 0.0 for feats in example.features for name in feats if name not in model.index}
+    if new:
+        model.update(new)
+    idx, val, start = [], [], [0]
+    for feats in example.features:
+        for name, value in feats.items():
+            idx.append(model.index[name])
+            val.append(value)
+        start.append(len(idx))
+    # reduceat needs a non-empty slice per candidate: every candidate has at least "size"
+    return Packed(np.array(idx, dtype=np.int64), np.array(val), np.array(start, dtype=np.int64),
+                  np.array(example.correct, dtype=bool), np.array(example.sizes))
+
+
+@dataclass
+class Report:
+    examples: int = 0
+    reachable: int = 0          # examples with at least one consistent candidate
+    right_before: int = 0       # top candidate consistent, before training (first pass)
+    not_simplest: int = 0       # targets (last pass) larger than the simplest consistent one
+    updates: int = 0
+
+    @property
+    def oracle(self) -> float:
+        return self.reachable / self.examples if self.examples else 0.0
+
+
+def train(model: Model, examples: list[Example], objective: str = "likelihood",
+          epochs: int = 3, rate: float | None = None, l1: float = 1e-4, seed: int = 0,
+          weight: Callable[[int], float] | None = None) -> tuple[Model, Report]:
+    """Learn from examples; returns a new model (prior + learned offset) and what happened.
+
+    `weight(i)` scales example i's updates (a clarified pick counts more than a plain confirm).
+    """
+    if objective not in OBJECTIVES:
+        raise ValueError(f"objective must be one of {OBJECTIVES}")
+    learned = Model(model.as_dict())
+    packed = [pack(ex, learned) for ex in examples]
+    report = Report(examples=len(examples), reachable=sum(ex.reachable for ex in examples))
+    base = learned.w.copy()
+    step = _hinge if objective == "hinge" else _likelihood
+    state = _State(len(base), rate if rate is not None else (0.1 if objective == "hinge" else 0.3),
+                   l1)
+    order = list(range(len(packed)))
+    rng = random.Random(seed)
+    for epoch in range(epochs):
+        rng.shuffle(order)
+        for i in order:
+            p = packed[i]
+            if not p.correct.any():
+                continue
+            scale = weight(i) if weight else 1.0
+            w = base + state.delta
+            scores = p.scores(w)
+            if epoch == 0 and scores.argmax() == np.flatnonzero(p.correct)[
+                    scores[p.correct].argmax()]:
+                report.right_before += 1
+            target = int(np.flatnonzero(p.correct)[scores[p.correct].argmax()])
+            if epoch == epochs - 1 and p.sizes[target] > p.sizes[p.correct].min():
+                report.not_simplest += 1
+            report.updates += step(state, p, scores, target, scale)
+            state.tick()
+    learned.w = base + (state.averaged() if objective == "hinge" else state.delta)
+    learned.version += 1
+    return learned, report
+
+
+class _State:
+    """The learned offset from the prior, with what each objective keeps about its history."""
+
+    def __init__(self, dim: int, rate: float, l1: float):
+        self.delta = np.zeros(dim)
+        self.sum_sq = np.full(dim, 1e-8)       # AdaGrad
+        self.acc = np.zeros(dim)                # averaging: Σ c·Δ
+        self.count = 1
+        self.rate, self.l1 = rate, l1
+
+    def tick(self) -> None:
+        self.count += 1
+
+    def averaged(self) -> np.ndarray:
+        return self.delta - self.acc / self.count
+
+
+def _hinge(state: _State, p: Packed, scores: np.ndarray, target: int, scale: float) -> int:
+    cost = (~p.correct).astype(float)
+    rival = int((scores + cost).argmax())
+    if p.correct[rival]:
+        return 0
+    ti, tv = p.phi(target, 0)
+    ri, rv = p.phi(rival, 0)
+    step = state.rate * scale
+    np.add.at(state.delta, ti, step * tv)
+    np.add.at(state.delta, ri, -step * rv)
+    np.add.at(state.acc, ti, state.count * step * tv)
+    np.add.at(state.acc, ri, -state.count * step * rv)
+    return 1
+
+
+def _likelihood(state: _State, p: Packed, scores: np.ndarray, target: int, scale: float) -> int:
+    probs = _softmax(scores)
+    good = np.where(p.correct, scores, -np.inf)
+    wanted = _softmax(good)
+    coef = wanted - probs                      # ∂ log Σ_good p / ∂ score_i
+    per_feature = np.repeat(coef, np.diff(p.start)) * p.val
+    grad = np.zeros_like(state.delta)
+    np.add.at(grad, p.idx, per_feature)
+    touched = np.unique(p.idx)
+    g = grad[touched] * scale
+    state.sum_sq[touched] += g * g
+    eta = state.rate / np.sqrt(state.sum_sq[touched])
+    moved = state.delta[touched] + eta * g
+    # L1 toward the prior: shrink the learned offset, stopping at zero
+    state.delta[touched] = np.sign(moved) * np.maximum(np.abs(moved) - eta * state.l1, 0.0)
+    return 1
+
+
+def _softmax(x: np.ndarray) -> np.ndarray:
+    top = np.max(x[np.isfinite(x)]) if np.isfinite(x).any() else 0.0
+    e = np.exp(np.where(np.isfinite(x), x - top, -np.inf))
+    return e / e.sum()
+
+
+def evaluate(examples: Iterable[Example]) -> dict[str, float]:
+    """Share of examples whose top candidate (by the scores they were ranked with) is right."""
+    examples = list(examples)
+    right = sum(1 for ex in examples if ex.correct and ex.correct[0])
+    reach = sum(ex.reachable for ex in examples)
+    n = max(len(examples), 1)
+    return {"accuracy": right / n, "oracle": reach / n, "examples": len(examples)}
