@@ -1,0 +1,146 @@
+"""Teaching from answers alone: a team word the prior misreads, learned on one table, used on
+another; example files; rebuilding a model from its log."""
+
+import csv
+import json
+
+import pytest
+
+import tabq
+from tabq.store import ModelFolder
+from tabq.teaching import ExamplesError, Job, read_examples, rebuild, teach
+
+PLANTS = ["Fern", "Basil", "Monstera", "Cactus", "Lavender", "Rosemary", "Orchid", "Aloe"]
+SIZES = ["small", "medium", "large"]
+
+
+def _nursery(path, statuses):
+    """A plant nursery's orders: one row per order, `status` paid / refunded / pending."""
+    with open(path, "w", newline="") as f:
+        w = csv.writer(f)
+        w.writerow(["order_id", "plant", "pot_size", "price", "status"])
+        for i, status in enumerate(statuses):
+            w.writerow([1000 + i, PLANTS[i % 8], SIZES[(i * 7) % 3],
+                        f"{4 + (i * 37) % 56}.{(i * 13) % 100:02d}", status])
+    return path
+
+
+@pytest.fixture(scope="module")
+def tables(tmp_path_factory):
+    root = tmp_path_factory.mktemp("nursery")
+    first = _nursery(root / "orders.csv",
+                     ["paid", "pending", "paid", "refunded", "paid", "paid", "pending", "refunded",
+                      "paid", "paid", "refunded", "pending", "paid", "paid", "paid", "pending",
+                      "refunded", "paid", "paid", "pending", "paid", "paid", "pending", "paid"])
+    # same columns, other rows: 7 refunds among 17 orders
+    second = _nursery(root / "spring_orders.csv",
+                      ["refunded", "paid", "refunded", "refunded", "pending", "paid", "refunded",
+                       "paid", "refunded", "paid", "refunded", "pending", "paid", "refunded",
+                       "paid", "paid", "pending"])
+    return first, second
+
+
+TAUGHT = ["how many returns were there", "count the returns", "number of returns",
+          "how many returns did we get"]
+NEW_PHRASING = "how many returns in all"
+
+
+@pytest.fixture(scope="module")
+def taught(tables, tmp_path_factory):
+    first, _ = tables
+    folder = ModelFolder(tmp_path_factory.mktemp("model"))
+    jobs = [Job(str(i), q, str(first), [4]) for i, q in enumerate(TAUGHT)]
+    report = teach(folder, jobs, epochs=3, workers=1)
+    return folder, report
+
+
+def test_untaught_the_team_word_is_misread_but_the_right_reading_is_a_candidate(tables):
+    first, second = tables
+    for path, refunds in [(first, 4), (second, 7)]:
+        for q in (NEW_PHRASING, "how many returns were there"):
+            result = tabq.open(path).ask(q)
+            assert result.answer != [refunds], (path.name, q, result.sql)
+            assert any("refunded" in (c.sql or "") for c in result.candidates), q
+
+
+def test_answers_alone_teach_the_word_and_a_new_phrasing_is_read_right(tables, taught):
+    first, _ = tables
+    folder, report = taught
+    assert (report.taught, report.reachable, report.skipped) == (4, 4, [])
+    result = tabq.open(first, model=folder.path).ask(NEW_PHRASING)
+    assert result.answer == [4]
+    assert "refunded" in result.sql
+    # untouched questions keep their prior reading
+    assert tabq.open(first, model=folder.path).ask("how many orders were paid").answer == [14]
+
+
+def test_the_word_taught_on_one_table_helps_on_another_with_the_same_columns(tables, taught):
+    _, second = tables
+    folder, _ = taught
+    result = tabq.open(second, model=folder.path).ask("how many returns were there")
+    assert result.answer == [7]
+    assert "refunded" in result.sql
+
+
+def test_teaching_logs_every_confirmation(taught):
+    folder, _ = taught
+    log = folder.read_log()
+    assert [r["question"] for r in log] == TAUGHT
+    assert all(r["batch"] == 1 and r["answer"] == [4] and r["fingerprint"] for r in log)
+    assert all("refunded" in (r["query"] or "") for r in log)
+
+
+def test_rebuild_from_the_log_gives_the_saved_models_answers(tables, taught):
+    first, second = tables
+    folder, _ = taught
+    rebuilt = rebuild(folder, workers=1)
+    saved = tabq.open(first, model=folder.path)
+    again = tabq.open(first, model=rebuilt)
+    for q in [*TAUGHT, NEW_PHRASING]:
+        assert again.ask(q).answer == saved.ask(q).answer, q
+    assert (tabq.open(second, model=rebuilt).ask("how many returns were there").answer
+            == tabq.open(second, model=folder.path).ask("how many returns were there").answer)
+
+
+# ── example files ─────────────────────────────────────────────────────────────────────────────
+def test_read_examples_reads_a_good_file(tmp_path, tables):
+    first, _ = tables
+    path = tmp_path / "ex.jsonl"
+    path.write_text(json.dumps({"question": "how many returns", "answer": 4}) + "\n\n"
+                    + json.dumps({"id": "b", "question": "q two", "answer": ["x", 2]}) + "\n")
+    jobs = read_examples(path, table=first)
+    assert [(j.id, j.question, j.answer) for j in jobs] == [
+        ("1", "how many returns", [4]), ("b", "q two", ["x", 2])]
+    assert all(j.table == str(first.resolve()) for j in jobs)
+
+
+@pytest.mark.parametrize("bad", [
+    '{"question": "how many", "answer": [4]',      # not JSON
+    '[1, 2]',                                       # not an object
+    '{"answer": [4]}',                              # no question
+    '{"question": "how many"}',                     # no answer
+    '{"question": "how many", "answer": {"a": 1}}',  # answer of the wrong kind
+])
+def test_read_examples_names_the_bad_line(tmp_path, tables, bad):
+    first, _ = tables
+    path = tmp_path / "ex.jsonl"
+    path.write_text('{"question": "one", "answer": [1]}\n\n' + bad + "\n"
+                    + '{"question": "four", "answer": [4]}\n')
+    with pytest.raises(ExamplesError) as info:
+        read_examples(path, table=first)
+    assert f"{path}:3:" in str(info.value)
+
+
+def test_read_examples_without_a_table_needs_one_per_line(tmp_path):
+    path = tmp_path / "ex.jsonl"
+    path.write_text('{"question": "one", "answer": [1]}\n')
+    with pytest.raises(ExamplesError, match=":1:"):
+        read_examples(path)
+
+
+def test_read_examples_missing_or_empty_file(tmp_path):
+    with pytest.raises(ExamplesError, match="no such file"):
+        read_examples(tmp_path / "nope.jsonl", table="t.csv")
+    (tmp_path / "empty.jsonl").write_text("\n\n")
+    with pytest.raises(ExamplesError, match="no examples"):
+        read_examples(tmp_path / "empty.jsonl", table="t.csv")
