@@ -307,7 +307,7 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms):
                     add("ENTITY", (col, value), (i, j), "stem")
             _partial(index, span_tokens, stems, (i, j), content, add)
     _fuzzy(index, tokens, content, found, add)
-    _floating(table, found, col_match, col_spans, content, atoms)
+    _floating(table, words, found, col_match, col_spans, content, atoms)
     for atom in found.values():
         atoms[atom.slot].append(atom)
 
@@ -362,25 +362,43 @@ def _fuzzy(index, tokens, content, found, add):
                         add("ENTITY", (col, value), (i, j), "fuzzy")
 
 
-def _floating(table, found, col_match, col_spans, content, atoms):
+def _floating(table, words, found, col_match, col_spans, content, atoms):
     """Values of small columns, offered without a mention of the value.
 
     When the column is named ("refunded" → refunded = yes) the value stands on that name, so
-    the same words cannot also be read as the column elsewhere in the form.
+    the same words cannot also be read as the column elsewhere in the form. Otherwise the value
+    may stand on a content word that nothing in the table explains ("no-shows" → status = did
+    not arrive): a team word only teaching can pair with its value, so the pairing must be
+    among the candidates for teaching to find it.
     """
     anchored = {a.value for a in found.values() if a.slot == "ENTITY"}
+    unknown = _unexplained_words(words, found, col_spans, content)
     for col in table.columns:
         if col.view is not None or col.kind not in ("text", "bool"):
             continue
         if not 1 < col.distinct <= FLOATING_VALUES or col.distinct >= table.row_count:
             continue
         for value in col.values:
-            if (col.name, value) not in anchored:
-                span = col_spans.get(col.name)
-                quality = "floating+col" if span else "floating"
-                covers = sum(1 for i in range(*span) if i in content) if span else 0
-                atoms["ENTITY"].append(Atom("ENTITY", (col.name, _typed(col, value)), span,
-                                            quality, covers))
+            if (col.name, value) in anchored:
+                continue
+            value = (col.name, _typed(col, value))
+            span = col_spans.get(col.name)
+            if span:
+                covers = sum(1 for i in range(*span) if i in content)
+                atoms["ENTITY"].append(Atom("ENTITY", value, span, "floating+col", covers))
+                continue
+            atoms["ENTITY"].append(Atom("ENTITY", value, None, "floating", 0))
+            atoms["ENTITY"].extend(Atom("ENTITY", value, (i, i + 1), "floating+word", 1)
+                                   for i in unknown)
+
+
+def _unexplained_words(words, found, col_spans, content) -> list[int]:
+    """Content words no column, cell value or number of the table accounts for."""
+    explained = {i for a in found.values() if a.span and a.quality in ("exact", "stem", "quoted")
+                 for i in range(*a.span)}
+    explained |= {i for span in col_spans.values() for i in range(*span)}
+    return [i for i in sorted(content) if i not in explained
+            and not any(ch.isdigit() for ch in words.tokens[i].text)]
 
 
 def _typed(col: Column, value):

@@ -33,7 +33,8 @@ def _parser() -> argparse.ArgumentParser:
     ask.add_argument("question", help="the question, in plain English")
     ask.add_argument("--table", dest="table_name", metavar="NAME",
                      help="which table or sheet of a SQLite or Excel file")
-    ask.add_argument("--model", metavar="DIR", help="a model folder (default: the untaught model)")
+    ask.add_argument("--model", metavar="DIR", help="a model folder (default: your per-user tabq folder, "
+                     "the untaught model until something is taught)")
     ask.add_argument("--top", type=int, default=3, metavar="K",
                      help="how many distinct answers to show (default 3)")
     ask.add_argument("--json", action="store_true", help="print JSON instead of text")
@@ -118,7 +119,9 @@ def _one_line(text: str) -> str:
 
 
 def _ask(args: argparse.Namespace) -> int:
-    table = api.open(args.table, model=args.model, table=args.table_name)
+    from .store import ModelFolder
+    model = ModelFolder(args.model).load()     # what `tabq teach` taught, by default too
+    table = api.open(args.table, model=model, table=args.table_name)
     result = table.ask(args.question)
     top = max(1, args.top)
     if args.json:
@@ -188,7 +191,7 @@ def _eval(args: argparse.Namespace) -> int:
     import time as _time
 
     from .store import ModelFolder
-    from .teaching import evaluate, learn_from, read_examples, write_predictions
+    from .teaching import evaluate, learn_from, read_examples, teach, write_predictions
     jobs = read_examples(args.examples)
     train_jobs = read_examples(args.train) if args.train else []
     folder = ModelFolder(args.model) if args.model else None
@@ -196,12 +199,15 @@ def _eval(args: argparse.Namespace) -> int:
     trained = None
     if train_jobs:
         start = _time.perf_counter()
-        model, report, _ = learn_from(model, train_jobs, args.objective, args.epochs,
-                                      args.workers)
+        if folder:      # taught like any confirmation: logged, so the log still rebuilds it
+            report = teach(folder, train_jobs, args.objective, args.epochs, args.workers)
+            model = folder.load()
+        else:
+            model, report, _ = learn_from(model, train_jobs, args.objective, args.epochs,
+                                          args.workers)
         trained = {"examples": report.taught, "oracle": report.reachable / max(report.taught, 1),
+                   "not_simplest": report.not_simplest,
                    "seconds": round(_time.perf_counter() - start, 1)}
-        if folder:
-            folder.save(model, objective=args.objective, trained_on=str(args.train))
     result = evaluate(model, jobs, args.workers)
     if args.predictions:
         write_predictions(args.predictions, jobs, result)
@@ -215,7 +221,8 @@ def _eval(args: argparse.Namespace) -> int:
         return 0
     if trained:
         print(f"trained on {trained['examples']} examples in {trained['seconds']} s "
-              f"(oracle coverage {trained['oracle']:.1%})")
+              f"(oracle coverage {trained['oracle']:.1%}; {trained['not_simplest']} targets "
+              "not the simplest reading that gives the answer)")
     print(f"accuracy {result.accuracy:.1%} ({round(result.accuracy * result.examples)}/"
           f"{result.examples}); oracle coverage {result.oracle:.1%}; "
           f"{result.seconds_per_question * 1000:.0f} ms per question")

@@ -177,6 +177,8 @@ def _atom_parts(analysis: Analysis, atom: Atom) -> list[dict]:
         parts.append(lexical_column(analysis, atom.value))
     elif atom.slot == "ENTITY" and atom.span is None:
         parts.append(lexical_value(analysis, *atom.value))
+    elif atom.slot == "ENTITY" and atom.quality == "floating+word":
+        parts.append(lexical_value(analysis, *atom.value, at=atom.span[0]))
     return parts
 
 
@@ -202,12 +204,28 @@ def _atom_scores(analysis: Analysis, scorer: _Scorer) -> dict[Atom, float]:
     return scores
 
 
+def _ranked(atoms: list[Atom], scores: dict[Atom, float]) -> list[Atom]:
+    """Atoms best first; among equal scores the columns take turns, so that a cut-off keeps
+    one value of every column before a second value of any ("no-shows": each small column's
+    values are equally likely before teaching, and teaching can only find what is tried)."""
+    turn: dict[tuple, int] = {}
+
+    def key(atom: Atom):
+        score = round(scores[atom], 6)
+        column = atom.value[0] if isinstance(atom.value, tuple) else atom.value
+        turn[score, column] = turn.get((score, column), -1) + 1
+        return -score, turn[score, column]
+
+    keys = {atom: key(atom) for atom in atoms}
+    return sorted(atoms, key=keys.__getitem__)
+
+
 def _combos(rule: Rule, analysis: Analysis, scores: dict[Atom, float], limit: int):
     """The rule's best `limit` fillings of its slots, atoms on disjoint spans."""
     lists = []
     for symbol in rule.symbols:
         if symbol.isupper():
-            atoms = sorted(analysis.atoms.get(symbol, []), key=lambda a: -scores[a])
+            atoms = _ranked(analysis.atoms.get(symbol, []), scores)
             lists.append(atoms[:SLOT_LIMIT * 2 if symbol == "ENTITY" else SLOT_LIMIT])
     found = []
     for atoms in itertools.product(*lists):

@@ -113,9 +113,15 @@ def lexical_column(analysis: Analysis, col: str) -> Features:
     return cache[col]
 
 
-def lexical_value(analysis: Analysis, col: str, value) -> Features:
-    """Question words paired with a cell value that no word names ("top grade" → grade A)."""
-    return {f"lexval:{g}|{col}={value}": 1.0 for g in analysis.grams if " " not in g}
+def lexical_value(analysis: Analysis, col: str, value, at: int | None = None) -> Features:
+    """Question words paired with a cell value that no word names ("top grade" → grade A):
+    the word the value stands on and the phrases around it, or every word when it stands on none."""
+    if at is None:
+        grams = [g for g in analysis.grams if " " not in g]
+    else:
+        word = analysis.words.tokens[at].stem
+        grams = [g for g in analysis.grams if word in g.split(" ") and g.count(" ") < 2]
+    return {f"lexval:{g}|{col}={value}": 1.0 for g in grams}
 
 
 # ── composition steps ─────────────────────────────────────────────────────────────────────────

@@ -206,6 +206,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "cover:quoted": 2.0,
     "ent:exact": 1.0, "ent:stem": 0.7, "ent:partial": -1.2, "ent:fuzzy": -0.5,
     "ent:number": 0.3, "ent:floating": -3.5, "ent:floating+col": 1.2,
+    "ent:floating+word": -3.5,       # with the cover of its word: still below a named value
     "ent:floating+col_exact": 0.5,
     "contains:partial": -0.3, "contains:quoted": 1.0,
     "col:exact": 0.6, "col:partial": 0.0, "col:stem": 0.4, "col:fuzzy": -0.2,

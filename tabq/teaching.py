@@ -180,20 +180,39 @@ class TeachReport:
     reachable: int
     replayed: int
     skipped: list[str]          # ids whose question or table failed
+    not_simplest: int = 0       # targets larger than the simplest reading giving the answer
 
 
 def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE,
                epochs: int = EPOCHS, workers: int | None = None,
                execute: int = TRAIN_EXECUTE) -> tuple[Model, TeachReport, dict[str, Example]]:
-    """A new model taught by these jobs (the old one is not changed)."""
+    """A new model taught by these jobs (the old one is not changed).
+
+    Candidates are searched with the model as it is; the examples none of whose candidates
+    gave the confirmed answer are searched again with the model the others taught (what it
+    learned about the team's words widens the search where it was blind), and learning runs
+    again from the old model on everything found."""
     found = run_parallel(_learning_batch, jobs, model, execute, "learning", workers)
     examples = {k: v for k, v in found.items() if isinstance(v, Example)}
     skipped = [k for k, v in found.items() if not isinstance(v, Example)]
+    taught, report = _train_on(model, jobs, examples, objective, epochs)
+    unreached = [j for j in jobs if j.id in examples and not examples[j.id].reachable]
+    if unreached and report.reachable:
+        again = run_parallel(_learning_batch, unreached, taught, execute, "searching again",
+                             workers)
+        found_now = {k: v for k, v in again.items() if isinstance(v, Example) and v.reachable}
+        if found_now:
+            examples.update(found_now)
+            taught, report = _train_on(model, jobs, examples, objective, epochs)
+    return taught, TeachReport(report.examples, report.reachable, 0, skipped,
+                               report.not_simplest), examples
+
+
+def _train_on(model: Model, jobs: list[Job], examples: dict[str, Example], objective: str,
+              epochs: int):
     ordered = [examples[j.id] for j in jobs if j.id in examples]
     weights = [j.extra.get("strength", 1.0) for j in jobs if j.id in examples]
-    taught, report = train(model, ordered, objective, epochs,
-                           weight=lambda i: weights[i])
-    return taught, TeachReport(len(ordered), report.reachable, 0, skipped), examples
+    return train(model, ordered, objective, epochs, weight=lambda i: weights[i])
 
 
 def teach(folder: ModelFolder, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE,

@@ -18,7 +18,8 @@ STOPWORDS = frozenset(
     """a an the of in on at to for from by with and or is are was were be been being do does did
     has have had what which who whom whose when where how this that these those there their its it
     as than then me my we our you your i they them he she his her all any some each every per
-    please tell show give list find get much many s""".split()
+    please tell show give list find get much many s among amongst into onto about across within
+    via through""".split()
 )
 
 UNITS = {

@@ -1,4 +1,6 @@
+import os
 import shutil
+import tempfile
 from importlib import resources
 from pathlib import Path
 
@@ -6,6 +8,10 @@ import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
 FIXTURES = Path(__file__).resolve().parent / "fixtures"
+
+# The per-user model folder (`tabq teach` without --model) goes to a throwaway place, so the
+# tests never read or change the real one; commands run by the tests inherit this.
+os.environ["XDG_DATA_HOME"] = tempfile.mkdtemp(prefix="tabq-test-data-")
 
 
 @pytest.fixture(scope="session")

@@ -66,3 +66,44 @@ def test_fragments_name_the_operators_a_step_adds(demo):
     for fn in NODE_FEATURES:
         feats.update(fn(a, Step("aggregate", (agg, col), ())))
     assert feats["col:exact"] == 1.0 and feats["cover"] >= 1.0
+
+
+# ── a team word no cell names: its value must be among the candidates for teaching to find it ──
+@pytest.fixture(scope="module")
+def hire(tmp_path_factory):
+    """An invented boat-hire sheet: a 10-value column listed before the 4-value status column."""
+    path = tmp_path_factory.mktemp("hire") / "hire.csv"
+    boats = ["Kite", "Wren", "Teal", "Rook", "Finch", "Lark", "Swift", "Crane", "Stork", "Gull"]
+    statuses = ["paid", "cancelled", "did not arrive", "complimentary"]
+    rows = ["boat,status,fee"] + [f"{boats[i % 10]},{statuses[i % 4]},{10 + i}"
+                                  for i in range(40)]
+    path.write_text("\n".join(rows) + "\n")
+    return tabq.open(path)
+
+
+def test_an_unexplained_word_offers_each_small_columns_values_on_itself(hire):
+    a = analyse("how many no-shows were there", hire.table)
+    shows = next(t.index for t in a.words.tokens if t.text == "shows")
+    on_word = {atom.value for atom in a.atoms["ENTITY"]
+               if atom.quality == "floating+word" and atom.span == (shows, shows + 1)}
+    assert ("status", "did not arrive") in on_word and ("boat", "Kite") in on_word
+    # a word the table explains ("paid" is a cell) gets no such reading
+    a = analyse("how many paid", hire.table)
+    assert not [atom for atom in a.atoms["ENTITY"] if atom.quality == "floating+word"]
+
+
+def test_untaught_the_beam_keeps_every_value_of_a_small_column_within_reach(hire):
+    # before teaching all floating values score alike: the 10 boats must not crowd the status out
+    forms = {str(item.form) for item in derive(analyse("how many no-shows were there",
+                                                       hire.table), hire.model)}
+    for status in ("paid", "cancelled", "did not arrive", "complimentary"):
+        assert f'(aggregate count _ (eq status "{status}"))' in forms
+
+
+def test_a_floating_value_pairs_with_the_word_it_stands_on(hire):
+    item = next(i for i in derive(analyse("how many no-shows were there", hire.table), hire.model)
+                if str(i.form) == '(aggregate count _ (eq status "did not arrive"))')
+    feats = item.features()
+    assert "lexval:show|status=did not arrive" in feats
+    assert "lexval:no show|status=did not arrive" in feats
+    assert not any(f.startswith("lexval:how") for f in feats)
