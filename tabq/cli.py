@@ -153,11 +153,11 @@ def _lexicon_import(args: argparse.Namespace) -> int:
 
 
 def _lexicon_show(args: argparse.Namespace) -> int:
-    from .lexicon import from_folder, imports, matching, table
+    from .lexicon import as_table, from_folder, imports, matching
     from .store import ModelFolder
     folder = ModelFolder(args.model)
     lexicon = from_folder(folder)
-    print(table(matching(lexicon, args.word)))
+    print(as_table(matching(lexicon, args.word)))
     if not args.word:
         print(f"\n{lexicon.confirmations} confirmations"
               + (f", {lexicon.support_unknown} of them with unknown support"

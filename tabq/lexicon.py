@@ -193,7 +193,7 @@ def _support(log: list[dict], model: Model) -> tuple[Counter, int, int]:
     records = since_replace(log)
     missing = [r for r in records if is_confirmation(r) and "senses" not in r]
     found = _senses_again(missing, model) if missing else {}
-    for i, record in enumerate(records):
+    for record in records:
         if record.get("kind") == "import":
             support.update(record.get("support", {}))
             confirmations += record.get("confirmations", 0)
@@ -358,7 +358,8 @@ def read(path: str | Path) -> tuple[Lexicon, str]:
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError:
-        raise LexiconError(f"{path}: not UTF-8 text; a lexicon is a JSON or CSV text file") from None
+        raise LexiconError(f"{path}: not UTF-8 text; a lexicon is a JSON or CSV text "
+                           "file") from None
     data = _parse_json(text, path) if kind == "json" else _parse_csv(text, path)
     return check(data, str(path)), hashlib.sha256(raw).hexdigest()
 
@@ -611,10 +612,10 @@ def matching(lexicon: Lexicon, word: str | None) -> list[Entry]:
     return [e for e in lexicon.entries if wanted & set(e.word.split()) or e.word == word.lower()]
 
 
-def table(entries: list[Entry]) -> str:
+def as_table(entries: list[Entry]) -> str:
     """A plain text table, one entry a line."""
     if not entries:
-        return "(nothing learned)"
+        return "(no entries)"
     rows = [("word", "kind", "meaning", "learned", "weight", "support")]
     rows += [(e.word or "—", e.kind, e.meaning, f"{e.learned:+.3f}", f"{e.weight:+.3f}",
               str(e.support)) for e in entries]
