@@ -302,14 +302,19 @@ def _str(text: str) -> str:
 
 
 def render_csv(lexicon: Lexicon) -> str:
-    out = io.StringIO()
-    writer = csv.writer(out, lineterminator="\n")
-    writer.writerow(CSV_PREAMBLE)
-    writer.writerow([FORMAT, VERSION, lexicon.confirmations, lexicon.support_unknown])
-    writer.writerow(CSV_HEADER)
-    for e in lexicon.all():
-        writer.writerow([e.word, e.kind, e.meaning, _num(e.learned), _num(e.weight), e.support])
-    return out.getvalue()
+    rows = [CSV_PREAMBLE, [FORMAT, VERSION, lexicon.confirmations, lexicon.support_unknown],
+            CSV_HEADER]
+    rows += [[e.word, e.kind, e.meaning, _num(e.learned), _num(e.weight), e.support]
+             for e in lexicon.all()]
+    return "".join(",".join(_cell(str(c)) for c in row) + "\n" for row in rows)
+
+
+def _cell(text: str) -> str:
+    """A CSV field, quoted when it must be. Python's csv writer leaves a lone carriage return
+    unquoted when lines end in a newline, and its reader then splits the row there."""
+    if any(c in text for c in ',"\r\n'):
+        return '"' + text.replace('"', '""') + '"'
+    return text
 
 
 def export(folder: ModelFolder, out: str | Path) -> Lexicon:
@@ -390,7 +395,11 @@ def _parse_json(text: str, path: Path) -> object:
 def _parse_csv(text: str, path: Path) -> dict:
     """The CSV as the same structure the JSON file has, so one check covers both."""
     try:
-        rows = list(csv.reader(io.StringIO(text, newline="")))
+        reader = csv.reader(io.StringIO(text, newline=""))
+        rows, lines = [], []
+        for row in reader:
+            rows.append(row)
+            lines.append(reader.line_num)     # a quoted field may span lines
     except csv.Error as err:
         raise LexiconError(f"{path}: not readable as CSV ({err})") from None
     if len(rows) < 3:
@@ -407,7 +416,7 @@ def _parse_csv(text: str, path: Path) -> dict:
                   "confirmations": _csv_int(confirmations, path, 2, "confirmations"),
                   "support_unknown": _csv_int(unknown, path, 2, "support_unknown"),
                   "entries": [], "structure": []}
-    for number, row in enumerate(rows[3:], 4):
+    for number, row in zip(lines[3:], rows[3:]):
         if not row:
             continue
         if len(row) != len(CSV_HEADER):

@@ -410,3 +410,35 @@ def test_cli_bad_lexicon_is_one_line_and_exit_2(shop, tmp_path):
     assert not (tmp_path / "m").exists()      # nothing was created for a refused file
     none = tabq_cli("lexicon")
     assert none.returncode == 2 and "export" in none.stderr
+
+
+# ── writers and reader agree on any lexicon ───────────────────────────────────────────────────
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+_text = st.text(min_size=1, max_size=30).filter(lambda t: "\x00" not in t)
+_weight = st.floats(-999, 999, allow_nan=False).map(lambda x: round(x, 6) + 0.0)
+_entry = st.builds(lambda word, kind, col, val, learned, weight, support: lexicon.Entry(
+    word, kind, f"{col}={val}" if kind == "value" else col, learned, weight, support),
+    _text.filter(lambda w: "|" not in w), st.sampled_from(lexicon.KINDS), _text, _text,
+    _weight, _weight, st.integers(0, 10**6))
+_structure = st.builds(lambda name, learned, weight, support: lexicon.Entry(
+    "", "structure", name, learned, weight, support),
+    _text.filter(lambda n: lexicon.split_feature(n) is None), _weight, _weight,
+    st.integers(0, 10**6))
+
+
+@settings(max_examples=40, deadline=None)
+@given(st.lists(_entry, max_size=6, unique_by=lambda e: e.feature),
+       st.lists(_structure, max_size=4, unique_by=lambda e: e.feature),
+       st.integers(0, 50), st.sampled_from(["json", "csv"]))
+def test_any_lexicon_reads_back_as_written(tmp_path_factory, entries, structure, n, kind):
+    names = {e.feature for e in entries}
+    structure = [s for s in structure if s.feature not in names]
+    written = lexicon._sorted(lexicon.Lexicon(n + 3, 3, list(entries), list(structure)))
+    path = tmp_path_factory.mktemp("any") / f"lex.{kind}"
+    path.write_text(lexicon.render(written, kind), encoding="utf-8")
+    back, _ = lexicon.read(path)
+    assert back == written
+    if kind == "json":
+        jsonschema.validate(json.loads(path.read_text(encoding="utf-8")), SCHEMA)
