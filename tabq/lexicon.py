@@ -212,12 +212,14 @@ def _support(log: list[dict], model: Model) -> tuple[Counter, int, int]:
     return support, confirmations, unknown
 
 
+LEXICAL_SENSES = tuple(f"{prefix}*|" for prefix in ("lex:", "lexcol:", "lexval:"))
+
+
 def _count(support: Counter, fired: set[str], grams: Iterable[str]) -> None:
-    for name in fired:
-        if "*|" not in name:
-            support[name] += 1
+    lexical = [name for name in fired if name.startswith(LEXICAL_SENSES)]
+    for name in fired - set(lexical):
+        support[name] += 1
     # a lexical sense "lex:*|sum" fires "lex:<gram>|sum" for every gram of the question
-    lexical = [name for name in fired if "*|" in name]
     for gram in grams:
         for name in lexical:
             prefix, _, meaning = name.partition("*|")
