@@ -102,6 +102,13 @@ def _is_id(col: Column, table: Table) -> bool:
         col.distinct >= table.row_count > 1)
 
 
+def question_grams(question: str) -> tuple[str, ...]:
+    """The grams `analyse` pairs with meanings, from the question alone: the lexicon uses them
+    to tell which logged confirmations back a learned word."""
+    words = read_question(question.replace("\x00", " ").strip()[:MAX_QUESTION])
+    return _grams(words) + (f"qtype:{_qtype(words)}",)
+
+
 def _grams(words: Words) -> tuple[str, ...]:
     stems = [t.stem for t in words.tokens if t.text[0].isalnum() or t.text == "n't"]
     grams = set(stems) | {f"{a} {b}" for a, b in zip(stems, stems[1:])}

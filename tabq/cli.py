@@ -15,6 +15,10 @@ EXAMPLES = {
     "teach": "tabq teach sample_tables/repair_jobs.csv confirmed.jsonl --model team-model",
     "eval": "tabq eval test.jsonl --train train.jsonl --model /tmp/m --predictions out.jsonl",
     "demo": "tabq demo",
+    "lexicon export": "tabq lexicon export --model team-model team-words.json",
+    "lexicon import": "tabq lexicon import team-words.json --model my-model --merge",
+    "lexicon show": "tabq lexicon show --model team-model --word refunds",
+    "lexicon diff": "tabq lexicon diff team-words-v1.json team-words-v2.json",
 }
 
 
@@ -73,7 +77,104 @@ def _parser() -> argparse.ArgumentParser:
                                "workshop) a few questions and show the answers with their SQL.",
                                epilog=f"example: {EXAMPLES['demo']}")
     demo.set_defaults(run=_demo)
+    _lexicon_parser(commands)
     return parser
+
+
+def _lexicon_parser(commands) -> None:
+    """`tabq lexicon export|import|show|diff`: what a model learned, as a file to share."""
+    group = commands.add_parser(
+        "lexicon", help="export, import, show or compare what a model learned",
+        description="The learned lexicon (which words mean which columns, values and "
+        "operations) as a JSON or CSV file to review, version, diff and share. "
+        "Format: docs/lexicon.md.", epilog=f"example: {EXAMPLES['lexicon export']}")
+    group.set_defaults(run=lambda args: _no_action(group))
+    actions = group.add_subparsers(dest="action", metavar="ACTION")
+
+    def action(name: str, help: str, description: str, run) -> argparse.ArgumentParser:
+        parser = actions.add_parser(name, help=help, description=description,
+                                    epilog=f"example: {EXAMPLES['lexicon ' + name]}")
+        parser.set_defaults(run=run)
+        return parser
+
+    model_help = "the model folder (default: your per-user tabq folder)"
+    export = action("export", "write the lexicon to a .json or .csv file",
+                    "Write every learned weight of a model, with its support, to OUT "
+                    "(.json or .csv), sorted so that versions diff well.", _lexicon_export)
+    export.add_argument("out", metavar="OUT", help="the file to write (.json or .csv)")
+    export.add_argument("--model", metavar="DIR", help=model_help)
+    load = action("import", "load a lexicon file into a model",
+                  "Load a lexicon file into a model folder. --merge (the default) adds its "
+                  "weights to the model's; --replace makes them the model's. A bad file is "
+                  "refused and the model left untouched.", _lexicon_import)
+    load.add_argument("file", metavar="FILE", help="a lexicon file (.json or .csv)")
+    load.add_argument("--model", metavar="DIR", help=model_help)
+    mode = load.add_mutually_exclusive_group()
+    mode.add_argument("--merge", dest="mode", action="store_const", const="merge",
+                      help="add the file's weights to the model's (default)")
+    mode.add_argument("--replace", dest="mode", action="store_const", const="replace",
+                      help="make the file's weights the model's learned weights")
+    load.set_defaults(mode="merge")
+    show = action("show", "print a model's lexicon as a table",
+                  "Print what a model learned as a table: word, kind of meaning, meaning, "
+                  "learned offset, total weight and support.", _lexicon_show)
+    show.add_argument("--model", metavar="DIR", help=model_help)
+    show.add_argument("--word", metavar="W", help="only entries of this word (by its stem)")
+    compare = action("diff", "what changed between two lexicon files",
+                     "Report the entries added, removed and changed from lexicon A to B.",
+                     _lexicon_diff)
+    compare.add_argument("a", metavar="A", help="the older lexicon file")
+    compare.add_argument("b", metavar="B", help="the newer lexicon file")
+
+
+def _no_action(parser: argparse.ArgumentParser) -> int:
+    parser.print_help(sys.stderr)
+    return 2
+
+
+def _lexicon_export(args: argparse.Namespace) -> int:
+    from .lexicon import export
+    from .store import ModelFolder
+    folder = ModelFolder(args.model)
+    lexicon = export(folder, args.out)
+    print(f"wrote {len(lexicon.entries)} entries and {len(lexicon.structure)} structure weights "
+          f"({lexicon.confirmations} confirmations) from {folder.path} to {args.out}")
+    return 0
+
+
+def _lexicon_import(args: argparse.Namespace) -> int:
+    from .lexicon import import_file
+    from .store import ModelFolder
+    folder = ModelFolder(args.model)
+    report = import_file(folder, args.file, args.mode)
+    verb = "merged" if report.mode == "merge" else "replaced the learned weights with"
+    print(f"{verb} {report.entries} weights from {args.file} into {folder.path} "
+          f"(log batch {report.batch})")
+    return 0
+
+
+def _lexicon_show(args: argparse.Namespace) -> int:
+    from .lexicon import as_table, from_folder, imports, matching
+    from .store import ModelFolder
+    folder = ModelFolder(args.model)
+    lexicon = from_folder(folder)
+    print(as_table(matching(lexicon, args.word)))
+    if not args.word:
+        print(f"\n{lexicon.confirmations} confirmations"
+              + (f", {lexicon.support_unknown} of them with unknown support"
+                 if lexicon.support_unknown else ""))
+        for record in imports(folder):
+            print(f"imported ({record.get('mode')}) {record.get('source')} on "
+                  f"{record.get('time')}, sha256 {str(record.get('sha256'))[:12]}")
+    return 0
+
+
+def _lexicon_diff(args: argparse.Namespace) -> int:
+    from .lexicon import diff, diff_text, read
+    a, _ = read(args.a)
+    b, _ = read(args.b)
+    print(diff_text(diff(a, b), a, b))
+    return 0
 
 
 def _learning_options(parser: argparse.ArgumentParser) -> None:

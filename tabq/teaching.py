@@ -25,6 +25,7 @@ from . import api
 from .answers import matches
 from .errors import InputError, TabqError
 from .learn import TRAIN_EXECUTE, Example, candidates, train
+from .lexicon import apply_import, is_confirmation, senses, since_replace
 from .model import Model
 from .store import ModelFolder
 
@@ -222,7 +223,7 @@ def teach(folder: ModelFolder, jobs: list[Job], objective: str = DEFAULT_OBJECTI
     with folder.locked():
         log = folder.read_log()
         batch = 1 + max((r.get("batch", 0) for r in log), default=0)
-        replay = [_job_of(r) for r in log[-REPLAY:]]
+        replay = [_job_of(r) for r in _replayable(log)[-REPLAY:]]
         model = folder.load()
         taught, report, examples = learn_from(model, replay + jobs, objective, epochs, workers)
         records = [_record(job, examples.get(job.id), batch) for job in jobs]
@@ -243,19 +244,33 @@ def rebuild(folder: ModelFolder, objective: str = DEFAULT_OBJECTIVE, epochs: int
         batches[record.get("batch", 0)].append(record)
     seen: list[dict] = []
     for number in sorted(batches):
+        for record in batches[number]:
+            if record.get("kind") == "import":       # a lexicon file loaded in (lexicon.py)
+                model = apply_import(model, record)
+                seen = [] if record.get("mode") == "replace" else seen
+        confirmed = [r for r in batches[number] if is_confirmation(r)]
+        if not confirmed:
+            continue
         replay = [_job_of(r) for r in seen[-REPLAY:]]
-        new = [_job_of(r) for r in batches[number]]
+        new = [_job_of(r) for r in confirmed]
         model, _, _ = learn_from(model, replay + new, objective, epochs, workers)
-        seen += batches[number]
+        seen += confirmed
     return model
 
 
+def _replayable(log: list[dict]) -> list[dict]:
+    """Confirmations still in force: those after the last lexicon import that replaced all."""
+    return [r for r in since_replace(log) if is_confirmation(r)]
+
+
 def _record(job: Job, example: Example | None, batch: int) -> dict:
-    target = None
+    target, fired = None, []
     if example is not None and example.reachable:
-        target = example.forms[example.correct.index(True)]
+        chosen = example.correct.index(True)
+        target, fired = example.forms[chosen], senses(example.features[chosen])
     return {"id": job.id, "question": job.question, "table": job.table,
             "fingerprint": _fingerprint(job.table), "answer": job.answer, "query": target,
+            "senses": fired,   # what the query means, for the lexicon's support counts
             "time": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
             "batch": batch, **({"strength": job.extra["strength"]} if "strength" in job.extra
                                else {})}
