@@ -125,6 +125,8 @@ def sense(name: str) -> str:
     if parts is None:
         return name
     word, kind, meaning = parts
+    if kind == "value":     # a value pairs with the words it stands on, not every word: keep them
+        return name
     return f"{PREFIXES[kind]}*|{meaning}"
 
 
