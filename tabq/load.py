@@ -46,6 +46,7 @@ VIEW_SHARE = 0.7             # share of a text column's real cells that must par
 VIEW_DISTINCT_CAP = 50_000   # above this many distinct texts, views are skipped (parsing cost)
 MEMORY_LIMIT = "4GB"         # hard cap: temp_directory is '' so DuckDB cannot spill to disk
 THREADS = 2
+ENUM_MAX = 10_000            # text columns with at most this many labels are stored as ENUMs
 
 _HEAD = 1 << 16        # bytes looked at to tell text from binary
 _CHUNK = 50_000        # rows per insert from the Python readers
@@ -729,6 +730,7 @@ def _build(con: _Con,
     ordered = [p for p in ordered if p.header or p.nonnull] or ordered[:1]
     _write_table(con, ordered, mapping)
     row_count = con.execute(f"SELECT count(*) FROM {TABLE}").fetchone()[0]
+    _categories_as_enums(con, ordered, row_count)
     return _profile(con, ordered, row_count), row_count, _total_row(con, ordered, row_count)
 
 
@@ -897,6 +899,19 @@ def _write_table(con: _Con, plans: list[_Plan],
         con.execute(f"DROP TABLE IF EXISTS {name}")
     _drop_empty_rows(con, plans)
     _stamps_to_dates(con)
+
+
+def _categories_as_enums(con: _Con, plans: list[_Plan], row_count: int) -> None:
+    """Text columns of repeated labels become ENUMs: filters and groups on them run several
+    times faster than on text. The labels are sorted by their bytes, as text is, so that
+    comparisons, min/max and ORDER BY give what they give on the text."""
+    for i, plan in enumerate(plans):
+        if plan.kind != "text" or not 1 < plan.distinct <= min(ENUM_MAX, row_count // 2):
+            continue
+        ref, enum = _ident(plan.name), _ident(f"_enum{i}")
+        con.execute(f"CREATE TYPE {enum} AS ENUM (SELECT DISTINCT {ref} FROM {TABLE} "
+                    f"WHERE {ref} IS NOT NULL ORDER BY {ref})")
+        con.execute(f"ALTER TABLE {TABLE} ALTER COLUMN {ref} TYPE {enum}")
 
 
 def _drop_empty_rows(con: _Con, plans: list[_Plan]) -> None:
