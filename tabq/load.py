@@ -85,10 +85,10 @@ class Table:
     cache: dict = field(default_factory=dict)   # answers by SQL, for the life of the table
 
     def column(self, name: str) -> Column:
-        for col in self.columns:
-            if col.name == name:
-                return col
-        raise KeyError(name)
+        by_name = self.cache.get("columns")
+        if by_name is None:   # asked thousands of times per question by the features
+            by_name = self.cache["columns"] = {col.name: col for col in self.columns}
+        return by_name[name]
 
 
 def load_table(path: str | Path, table: str | None = None) -> Table:
