@@ -223,6 +223,8 @@ def _read_bytes(path: Path) -> tuple[bytes, hashlib._Hash]:
             digest.update(head)
             for chunk in iter(lambda: f.read(1 << 20), b""):
                 digest.update(chunk)
+        if len(head) < _HEAD and not head.strip():
+            raise TableFileError(f"{name}: the file holds only blank lines")
     except PermissionError:
         raise TableFileError(f"{name}: no permission to read it") from None
     except OSError as exc:
