@@ -8,6 +8,7 @@
 from __future__ import annotations
 
 import math
+import time
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -15,8 +16,8 @@ from . import logic as L
 from .analyse import Analysis, analyse
 from .answers import Denotation
 from .derive import Item, derive
-from .execute import run
-from .features import ANSWER_FEATURES
+from .execute import run_many
+from .features import ANSWER_FEATURES, answer_score_bound
 from .load import Table, load_table
 from .model import Model
 from .sql import render
@@ -24,6 +25,10 @@ from .store import load_model  # noqa: F401 (re-exported for the CLI)
 
 EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
 UNSURE = 0.5            # below this share of probability the top answer is flagged
+QUESTION_SECONDS = 20.0  # all the queries of one question; past it, the best found so far, flagged
+BATCH = 20              # candidates executed between two checks of whether the rest can matter
+SETTLED = 3             # distinct readings that must come out exactly as if all were executed
+MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
 
 
 @dataclass
@@ -39,6 +44,7 @@ class Reading:
     error: str | None = None
     probability: float = 0.0
     is_table: bool = False
+    key: tuple = field(default=(), repr=False, compare=False)   # which answer it is
 
 
 @dataclass
@@ -47,6 +53,7 @@ class Result:
     readings: list[Reading]          # one per distinct answer, best first
     candidates: list[Reading]        # every executed candidate, best first
     notes: list[str] = field(default_factory=list)
+    complete: bool = True            # false when the time limit stopped the search early
 
     @property
     def best(self) -> Reading | None:
@@ -70,7 +77,7 @@ class Result:
 
     @property
     def unsure(self) -> bool:
-        return self.confidence < UNSURE
+        return self.confidence < UNSURE or not self.complete
 
 
 class OpenTable:
@@ -86,25 +93,84 @@ class OpenTable:
     def analyse(self, question: str) -> Analysis:
         return analyse(question, self.table)
 
-    def ask(self, question: str, execute: int = EXECUTE) -> Result:
-        """Answer a question: every distinct answer, best first, with the SQL behind it."""
+    def ask(self, question: str, execute: int = EXECUTE,
+            seconds: float = QUESTION_SECONDS) -> Result:
+        """Answer a question: every distinct answer, best first, with the SQL behind it.
+
+        The best `execute` candidates by the features that need no answer are run, best first
+        and in batches; the rest are skipped once they can no longer change the SETTLED best
+        distinct readings nor hold more than MASS_TOLERANCE of the probability, whatever their
+        answers (`features.answer_score_bound`). So the answer is the one running them all
+        would give under the same model.
+        """
+        started = time.monotonic()
         analysis = self.analyse(question)
         items = derive(analysis, self.model)[:execute]
-        candidates = [self._reading(analysis, item) for item in items]
+        bound = answer_score_bound(analysis, self.model)
+        deadline = started + seconds
+        candidates: list[Reading] = []
+        complete = True
+        for start in range(0, len(items), BATCH):
+            if _can_skip(candidates, items[start:], bound):
+                break
+            batch = items[start:start + BATCH]
+            for item, den in zip(batch, run_many(self.table, [i.form for i in batch],
+                                                 deadline=deadline)):
+                if den is None:
+                    complete = False
+                else:
+                    candidates.append(self._reading(analysis, item, den))
+            if not complete:
+                break
         candidates.sort(key=lambda r: -r.score)
         readings = _distinct_answers(candidates)
         notes = ["the question was cut to its first 2000 characters"] if analysis.truncated else []
-        return Result(question, readings, candidates, notes)
+        if not complete:
+            notes.append(f"stopped at the {seconds:g} s limit: the best of the {len(candidates)} "
+                         f"readings checked by then, of {len(items)}")
+        return Result(question, readings, candidates, notes, complete)
 
-    def _reading(self, analysis: Analysis, item: Item) -> Reading:
-        den = run(self.table, item.form)
+    def _reading(self, analysis: Analysis, item: Item, den: Denotation) -> Reading:
         feats = item.features()
         for fn in ANSWER_FEATURES:
             for name, value in fn(analysis, den).items():
                 feats[name] = feats.get(name, 0.0) + value
         score = self.model.score(feats)
-        return Reading(item.form, render(item.form), L.paraphrase(item.form, self.label),
-                       list(den.values), score, feats, den.error, is_table=den.is_table)
+        return Reading(item.form, render(item.form), self._paraphrase(item.form),
+                       list(den.values), score, feats, den.error, is_table=den.is_table,
+                       key=_key(self.table, den))
+
+    def _paraphrase(self, form: L.Answer) -> str:
+        cache = self.table.cache.setdefault("paraphrases", {})
+        if form not in cache:
+            cache[form] = L.paraphrase(form, self.label)
+        return cache[form]
+
+
+def _key(table: Table, den: Denotation) -> tuple:
+    """Which answer a denotation is (normalising a long list costs; each is done once)."""
+    if den.error:
+        return ()
+    cache = table.cache.setdefault("keys", {})
+    if id(den) not in cache or cache[id(den)][0] is not den:
+        cache[id(den)] = (den, den.key())
+    return cache[id(den)][1]
+
+
+def _can_skip(done: list[Reading], rest: list[Item], bound: float) -> bool:
+    """Whether no candidate in `rest` can matter, whatever its answer: each one's score is at
+    most its answer-free score plus `bound`."""
+    if not done or not rest:
+        return not rest
+    readings = sorted({r.key if not r.error else ("error", r.sql): r.score for r in sorted(
+        done, key=lambda r: r.score)}.values(), reverse=True)
+    best_rest = max(i.score for i in rest) + bound + 1e-9
+    if len(readings) < SETTLED or best_rest >= readings[SETTLED - 1]:
+        return False
+    top = readings[0]
+    held = sum(math.exp(r.score - top) for r in done)
+    skipped = sum(math.exp(i.score + bound - top) for i in rest)
+    return skipped <= MASS_TOLERANCE * held
 
 
 def _distinct_answers(candidates: list[Reading]) -> list[Reading]:
@@ -115,7 +181,7 @@ def _distinct_answers(candidates: list[Reading]) -> list[Reading]:
     mass: dict[tuple, float] = {}
     best: dict[tuple, Reading] = {}
     for c in candidates:
-        key = Denotation(tuple(c.answer), c.is_table).key() if not c.error else ("error", c.sql)
+        key = c.key if not c.error else ("error", c.sql)
         mass[key] = mass.get(key, 0.0) + math.exp(c.score - top)
         best.setdefault(key, c)
     total = sum(mass.values())

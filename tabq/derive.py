@@ -260,16 +260,15 @@ def _apply(rule: Rule, combos, cells: list[list[Item]], scorer: _Scorer, size: i
     plans.sort(key=lambda p: -p[0])
     built = 0
     for _, kids, atoms, used in plans:
-        item = _build(rule, builder, analysis, scorer, atoms, kids, size)
+        item = _build(rule, builder, analysis, scorer, atoms, kids, size, used)
         if item is not None:
-            yield Item(item.form, item.category, size, item.score, item.step, item.local, kids,
-                       used, item.columns)
+            yield item
             built += 1
             if built >= BUILD_LIMIT:
                 return
 
 
-def _build(rule, builder, analysis, scorer, atoms, kids, size) -> Item | None:
+def _build(rule, builder, analysis, scorer, atoms, kids, size, used) -> Item | None:
     form = builder(analysis, *_args(rule, atoms, kids))
     if form is None:
         return None
@@ -284,8 +283,7 @@ def _build(rule, builder, analysis, scorer, atoms, kids, size) -> Item | None:
         scorer.model.score(plain))
     columns = frozenset().union(*(k.columns for k in kids)) | {
         c for a in atoms for c in _atom_columns(a)}
-    return Item(form, rule.category, size, score, step, (plain, *shared), kids, frozenset(),
-                columns)
+    return Item(form, rule.category, size, score, step, (plain, *shared), kids, used, columns)
 
 
 def _atom_columns(atom: Atom) -> tuple[str, ...]:

@@ -1,41 +1,220 @@
-"""execute: candidate forms → SQL → DuckDB → answers, bounded in time and cached by SQL."""
+"""execute: candidate forms → SQL → DuckDB → answers, fused, bounded in time and cached by SQL.
+
+Candidates that share a scan are run as one query (`run_many`):
+- aggregates over the same rows (and yes/no questions about them): one SELECT per distinct WHERE
+  carrying all their aggregates, at most FUSE_WIDTH a query (long lists of aggregates get slow);
+- "which group has the most/the top n groups by" over the same key and rows: one GROUP BY with
+  every measure, the best groups picked in Python exactly as the form's SQL picks them.
+Every answer is cached under the form's own SQL for the life of the open table, and every form
+keeps its own SQL for display: fusion changes how an answer is computed, never what it is.
+"""
 
 from __future__ import annotations
 
 import threading
+import time
+from collections import defaultdict
 
 import duckdb
+from sqlglot import exp
 
 from . import logic as L
 from .answers import Denotation, clean
 from .errors import QueryError
-from .load import Table
-from .sql import render
+from .load import ROW, Table
+from .sql import aggregate, column, compile_form, render, select, where
 
 QUERY_SECONDS = 5.0
 MAX_ROWS = 1000          # rows of one answer kept; more is not an answer anyone reads
+FUSE_WIDTH = 32          # aggregates in one fused SELECT
+GROUP_FUSE_LIMIT = 10_000   # key columns with more distinct values are grouped form by form
 
 
 def run(table: Table, form: L.Answer, seconds: float = QUERY_SECONDS) -> Denotation:
     """The answer of one form on the table; failures become an empty answer with the error."""
     sql = render(form)
-    cache = table.cache.setdefault("answers", {})
+    cache = _answers(table)
     if sql not in cache:
-        cache[sql] = _execute(table, sql, seconds, isinstance(form, L.GroupTable))
+        cache[sql] = _execute(table, _limited(sql), seconds, isinstance(form, L.GroupTable))
     return cache[sql]
 
 
-def _execute(table: Table, sql: str, seconds: float, is_table: bool) -> Denotation:
+def run_many(table: Table, forms: list[L.Answer], seconds: float = QUERY_SECONDS,
+             deadline: float | None = None) -> list[Denotation | None]:
+    """The answers of many forms, those that share a scan computed together.
+
+    `deadline` (a time.monotonic() value) stops the work between queries; forms not reached by
+    then get None.
+    """
+    cache = _answers(table)
+    todo = [f for f in dict.fromkeys(forms) if render(f) not in cache]
+    scalars: dict[str, list[L.Answer]] = defaultdict(list)
+    groups: dict[tuple, list[L.Answer]] = defaultdict(list)
+    single = []
+    for form in todo:
+        if _scalar(table, form) is not None:
+            scalars[render_condition(_rows_of(form))].append(form)
+        elif isinstance(form, (L.GroupBest, L.GroupTop)) and _groupable(table, form.key):
+            groups[(form.key, render_condition(form.rows))].append(form)
+        else:
+            single.append(form)
+    jobs = [(_run_scalars, batch) for batch in _batches(scalars.values())]
+    jobs += [(_run_groups, batch) for batch in groups.values()]
+    jobs += [(_run_single, [form]) for form in single]
+    order = {form: i for i, form in enumerate(todo)}
+    jobs.sort(key=lambda job: min(order[f] for f in job[1]))   # best candidates first
+    for fn, batch in jobs:
+        if deadline is not None and time.monotonic() >= deadline:
+            break
+        fn(table, batch, _seconds(seconds, deadline))
+    return [cache.get(render(f)) for f in forms]
+
+
+def _answers(table: Table) -> dict[str, Denotation]:
+    return table.cache.setdefault("answers", {})
+
+
+def _seconds(seconds: float, deadline: float | None) -> float:
+    if deadline is None:
+        return seconds
+    return max(0.05, min(seconds, deadline - time.monotonic()))
+
+
+def _limited(sql: str) -> str:
+    """The query with a LIMIT just past what is kept, so DuckDB can stop early or keep a top-n
+    instead of sorting everything (the rows it returns are the first ones all the same)."""
+    return f"SELECT * FROM ({sql}) LIMIT {MAX_ROWS}"
+
+
+# ── the three ways of running ─────────────────────────────────────────────────────────────────
+def _run_single(table: Table, forms: list[L.Answer], seconds: float) -> None:
+    for form in forms:
+        run(table, form, seconds)
+
+
+def _run_scalars(table: Table, forms: list[L.Answer], seconds: float) -> None:
+    """Forms of one value over the same rows: one SELECT with all their expressions."""
+    cache = _answers(table)
+    if len(forms) == 1:
+        return _run_single(table, forms, seconds)
+    projections = [_scalar(table, f) for f in forms]
+    query = select(*projections, where=where(_rows_of(forms[0])))
+    rows = _fetch(table, query.sql(dialect="duckdb"), seconds)
+    if isinstance(rows, Denotation):   # one bad expression spoils the lot: run them alone
+        return _run_single(table, forms, seconds)
+    for form, value in zip(forms, rows[0], strict=True):
+        cache[render(form)] = Denotation((clean(value),))
+
+
+def _run_groups(table: Table, forms: list[L.GroupBest | L.GroupTop], seconds: float) -> None:
+    """Best groups over the same key and rows: one GROUP BY with every measure and the first
+    row of each group; each form then picks its groups as its own SQL would."""
+    cache = _answers(table)
+    if len(forms) == 1:
+        return _run_single(table, forms, seconds)
+    first = forms[0]
+    measures = list(dict.fromkeys((f.fn, f.measure) for f in forms))
+    query = select(column(first.key), exp.Min(this=column(ROW)),
+                   *(aggregate(fn, col) for fn, col in measures),
+                   where=_not_null_where(first.key, first.rows)).group_by(column(first.key))
+    rows = _fetch(table, query.sql(dialect="duckdb"), seconds, keep=GROUP_FUSE_LIMIT + 1)
+    if isinstance(rows, Denotation) or len(rows) > GROUP_FUSE_LIMIT:
+        return _run_single(table, forms, seconds)
+    for form in forms:
+        at = 2 + measures.index((form.fn, form.measure))
+        groups = [(row[0], row[1], row[at]) for row in rows]
+        picked = _best_groups(groups, form.direction) if isinstance(form, L.GroupBest) else (
+            _top_groups(groups, form.direction, form.n))
+        cache[render(form)] = Denotation(tuple(clean(key) for key in picked))
+
+
+def _best_groups(groups: list[tuple], direction: str) -> list:
+    """HAVING measure = (best measure), in order of each group's first row; NULLs never equal."""
+    measured = [g for g in groups if g[2] is not None]
+    if not measured:
+        return []
+    best = (max if direction == "max" else min)(g[2] for g in measured)
+    return [key for key, _, _ in sorted((g for g in measured if g[2] == best), key=lambda g: g[1])]
+
+
+def _top_groups(groups: list[tuple], direction: str, n: int) -> list:
+    """ORDER BY measure (DESC for max) NULLS LAST, then first row; LIMIT n."""
+    by_row = sorted(groups, key=lambda g: g[1])
+    measured = sorted((g for g in by_row if g[2] is not None), key=lambda g: g[2],
+                      reverse=direction == "max")   # sorting is stable, reversed or not
+    ordered = measured + [g for g in by_row if g[2] is None]
+    return [key for key, _, _ in ordered[:n]]
+
+
+# ── which forms fuse ──────────────────────────────────────────────────────────────────────────
+def _scalar(table: Table, form: L.Answer) -> exp.Expression | None:
+    """The one projection of a form that is `SELECT <aggregate> FROM t [WHERE …]`, else None.
+
+    COUNT(DISTINCT c) of a column whose values are all different (the profile says so) is
+    COUNT(c) on any rows: the same number without a hash set of a million ids."""
+    if not isinstance(form, (L.Aggregate, L.YesNo)):
+        return None
+    if isinstance(form, L.Aggregate) and form.fn == "count_distinct" and _unique(table, form.col):
+        return exp.Count(this=column(form.col))
+    return compile_form(form).expressions[0]
+
+
+def _unique(table: Table, name: str) -> bool:
+    try:
+        col = table.column(name)
+    except KeyError:
+        return False
+    return col.distinct > 0 and col.distinct + col.nulls == table.row_count
+
+
+def _rows_of(form: L.Aggregate | L.YesNo) -> L.Rows:
+    return form.rows
+
+
+def render_condition(rows: L.Rows) -> str:
+    cond = where(rows)
+    return "" if cond is None else cond.sql(dialect="duckdb")
+
+
+def _not_null_where(key: str, rows: L.Rows) -> exp.Expression:
+    present = exp.Not(this=exp.Is(this=column(key), expression=exp.Null()))
+    cond = where(rows)
+    return present if cond is None else exp.and_(cond, present)
+
+
+def _groupable(table: Table, key: str) -> bool:
+    try:
+        return table.column(key).distinct <= GROUP_FUSE_LIMIT
+    except KeyError:
+        return False
+
+
+def _batches(groups) -> list[list[L.Answer]]:
+    out = []
+    for forms in groups:
+        out += [forms[i:i + FUSE_WIDTH] for i in range(0, len(forms), FUSE_WIDTH)]
+    return out
+
+
+# ── DuckDB, bounded ───────────────────────────────────────────────────────────────────────────
+def _fetch(table: Table, sql: str, seconds: float, keep: int = MAX_ROWS) -> list | Denotation:
+    """Rows of a query, or a Denotation carrying the error when it fails or runs too long."""
     timer = threading.Timer(seconds, table.con.interrupt)
     timer.start()
     try:
-        rows = table.con.execute(sql).fetchmany(MAX_ROWS)
+        return table.con.execute(sql).fetchmany(keep)
     except (duckdb.InterruptException, KeyboardInterrupt):
         return Denotation((), error=f"the query ran past {seconds:g} s and was stopped")
     except duckdb.Error as err:
         return Denotation((), error=str(err).splitlines()[0][:200])
     finally:
         timer.cancel()
+
+
+def _execute(table: Table, sql: str, seconds: float, is_table: bool) -> Denotation:
+    rows = _fetch(table, sql, seconds)
+    if isinstance(rows, Denotation):
+        return rows
     if is_table:
         return Denotation(tuple(tuple(clean(v) for v in row) for row in rows), is_table=True)
     return Denotation(tuple(clean(row[0]) for row in rows))

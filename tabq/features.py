@@ -16,6 +16,7 @@ from dataclasses import dataclass
 
 from .analyse import Analysis, Atom
 from .answers import Denotation
+from .logic import Extreme, Neighbour, Position, walk
 
 Features = dict[str, float]
 NODE_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
@@ -202,7 +203,6 @@ SUPERLATIVES = ("extreme", "group_best", "group_best_count", "top_n", "which_of_
 @node_feature
 def nesting(analysis: Analysis, step: Step) -> Features:
     """Two superlatives in one form, or conditions stacked deep, are rarely what was asked."""
-    from .logic import Extreme, Neighbour, Position, walk
     feats: Features = {}
     if step.rule in AGGREGATING and step.child_forms and isinstance(
             step.child_forms[0], (Extreme, Position, Neighbour)):
@@ -302,3 +302,19 @@ def repeats_question(analysis: Analysis, den: Denotation) -> Features:
             den.values[0], bool) and float(den.values[0]) in asked:
         return {"den:repeats_number": 1.0}
     return {}
+
+
+def answer_score_bound(analysis: Analysis, model) -> float:
+    """The most the answer features above can add to a candidate's score, whatever the answer.
+
+    An answer is empty, all missing, or of one kind with optional extras (many values, huge,
+    a table, repeats, a repeated number); the bound takes the best kind and every extra that
+    helps. Keep it in step with the functions above: tests/test_execute.py checks it on many
+    answers.
+    """
+    w = model.weight
+    q = analysis.qtype
+    extras = ("den:many", f"den:{q}|many", "den:huge", "den:table", "den:repeats",
+              "den:repeats_number")
+    kinds = max(w(f"den:{q}|{kind}") for kind in ("number", "text", "date", "yesno", "table"))
+    return max(w("den:empty"), w("den:null"), kinds + sum(max(0.0, w(e)) for e in extras))

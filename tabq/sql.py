@@ -47,6 +47,11 @@ def _select(*projections: exp.Expression, where: exp.Expression | None = None) -
     return query.where(where, copy=False) if where is not None else query
 
 
+def select(*projections: exp.Expression, where: exp.Expression | None = None) -> exp.Select:
+    """SELECT projections FROM the table [WHERE where]."""
+    return _select(*projections, where=where)
+
+
 def _paren(query: exp.Expression) -> exp.Subquery:
     return exp.Subquery(this=query)
 
@@ -57,8 +62,12 @@ def condition(rows: L.Rows) -> exp.Expression:
     return _CONDITIONS[type(rows)](rows)
 
 
-def _where(rows: L.Rows) -> exp.Expression | None:
+def where(rows: L.Rows) -> exp.Expression | None:
+    """The WHERE condition of a row set, or None for all rows."""
     return None if isinstance(rows, L.All) else condition(rows)
+
+
+_where = where
 
 
 def _not(rows: L.Not) -> exp.Expression:
@@ -164,15 +173,23 @@ def _which_of(form: L.WhichOf) -> exp.Select:
 
 
 def _group_best(form: L.GroupBest) -> exp.Select:
-    measure = aggregate(form.fn, form.measure)
+    # The measure is computed once, in the grouping: computed twice (for the best value too),
+    # a float sum summed in parallel can differ in its last bits and match no group at all.
+    # The helper names start with __, as no clean column name does.
     per_group = _grouped(form.key, form.rows).select(
-        exp.alias_(measure.copy(), "m", quoted=True), append=False, copy=False)
+        exp.alias_(exp.Min(this=column(ROW)), "__first", quoted=True),
+        exp.alias_(aggregate(form.fn, form.measure), "__m", quoted=True), copy=False)
     best_fn = exp.Max if form.direction == "max" else exp.Min
-    best = exp.Select(expressions=[best_fn(this=exp.column("m", quoted=True))]).from_(
+    best = exp.Window(this=best_fn(this=exp.column("__m", quoted=True)))
+    ranked = exp.Select(expressions=[
+        column(form.key), exp.column("__first", quoted=True), exp.column("__m", quoted=True),
+        exp.alias_(best, "__best", quoted=True)]).from_(
         _paren(per_group).as_("g", quoted=True), copy=False)
-    having = exp.EQ(this=measure, expression=_paren(best))
-    return _grouped(form.key, form.rows).having(having, copy=False).order_by(
-        exp.Min(this=column(ROW)), copy=False)
+    is_best = exp.EQ(this=exp.column("__m", quoted=True),
+                     expression=exp.column("__best", quoted=True))
+    return exp.Select(expressions=[column(form.key)]).from_(
+        _paren(ranked).as_("b", quoted=True), copy=False).where(is_best, copy=False).order_by(
+        exp.column("__first", quoted=True), copy=False)
 
 
 def _group_top(form: L.GroupTop) -> exp.Select:
