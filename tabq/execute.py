@@ -10,7 +10,7 @@ from . import logic as L
 from .answers import Denotation, clean
 from .errors import QueryError
 from .load import Table
-from .sql import render
+from .sql import on_rows, render
 
 QUERY_SECONDS = 5.0
 MAX_ROWS = 1000          # rows of one answer kept; more is not an answer anyone reads
@@ -19,6 +19,16 @@ MAX_ROWS = 1000          # rows of one answer kept; more is not an answer anyone
 def run(table: Table, form: L.Answer, seconds: float = QUERY_SECONDS) -> Denotation:
     """The answer of one form on the table; failures become an empty answer with the error."""
     sql = render(form)
+    cache = table.cache.setdefault("answers", {})
+    if sql not in cache:
+        cache[sql] = _execute(table, sql, seconds, isinstance(form, L.GroupTable))
+    return cache[sql]
+
+
+def run_on_rows(table: Table, form: L.Answer, rows: tuple[int, ...],
+                seconds: float = QUERY_SECONDS) -> Denotation:
+    """The answer of a form on some rows of the table only (listed by ROW), cached by SQL."""
+    sql = on_rows(form, rows)
     cache = table.cache.setdefault("answers", {})
     if sql not in cache:
         cache[sql] = _execute(table, sql, seconds, isinstance(form, L.GroupTable))
