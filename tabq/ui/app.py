@@ -74,15 +74,20 @@ class TabqApp(App):
         yield Footer()
 
     def on_mount(self) -> None:
-        self.query_one("#question", Input).focus()
-        self.query_one(ReadingPanel).show(None)
+        self._q("#question", Input).focus()
+        self._q(ReadingPanel).show(None)
         self.load()
+
+    def _q(self, selector, expect=None):
+        """A widget of the main screen, also while a prompt is open above it."""
+        base = self.screen_stack[0] if self.screen_stack else self
+        return base.query_one(selector, expect) if expect else base.query_one(selector)
 
     # ── messages in the status line ─────────────────────────────────────────────────────────
     def say(self, text: str, tone: str = "info") -> None:
         colour = {"info": "#8a94a0", "good": "#7fc97f", "warn": "#c9a25a",
                   "bad": "#e0685f"}[tone]
-        self.query_one("#status", Static).update(Text(text, style=colour))
+        self._q("#status", Static).update(Text(text, style=colour))
 
     def fail(self, err: BaseException) -> None:
         if isinstance(err, TabqError):
@@ -109,7 +114,7 @@ class TabqApp(App):
             self.call_from_thread(self.fail, err)
 
     def _bar(self, text: str) -> None:
-        self.query_one("#bar", Static).update(Text("tabq", style="bold") + Text(f"  {text}"))
+        self._q("#bar", Static).update(Text("tabq", style="bold") + Text(f"  {text}"))
 
     def _loaded(self) -> None:
         s = self.session
@@ -123,7 +128,7 @@ class TabqApp(App):
     def _fill_rows(self) -> None:
         t = self.session.open.table
         cols = [c for c in t.columns]
-        grid = self.query_one("#rows-table", DataTable)
+        grid = self._q("#rows-table", DataTable)
         grid.clear(columns=True)
         for c in cols:
             grid.add_column(c.header if c.view is None else f"{c.header} → {c.view}",
@@ -137,7 +142,7 @@ class TabqApp(App):
             info += f", first {len(rows)} shown"
         info += (f"; typed views of messy columns: {', '.join(views)}" if views
                  else "; no messy columns needed typed views")
-        self.query_one("#rows-info", Static).update(info)
+        self._q("#rows-info", Static).update(info)
 
     # ── asking ─────────────────────────────────────────────────────────────────────────────
     def on_input_submitted(self, event: Input.Submitted) -> None:
@@ -172,9 +177,9 @@ class TabqApp(App):
             return
         self.result = result
         self.alikes = [self.session.look_alikes(result, r) for r in result.readings]
-        answers = self.query_one(AnswerList)
+        answers = self._q(AnswerList)
         answers.show(result, [len(a) for a in self.alikes])
-        self.query_one(ReadingPanel).show(result.best, len(self.alikes[0]) if result.best
+        self._q(ReadingPanel).show(result.best, len(self.alikes[0]) if result.best
                                           else 1)
         if not result.best:
             self.say("No reading of this question fits the table.", "warn")
@@ -188,8 +193,8 @@ class TabqApp(App):
         self._refresh_history()
 
     def on_option_list_option_highlighted(self, event: AnswerList.OptionHighlighted) -> None:
-        if self.result and event.option_index < len(self.result.readings):
-            self.query_one(ReadingPanel).show(self.result.readings[event.option_index],
+        if self.screen_stack and self.result and event.option_index < len(self.result.readings):
+            self._q(ReadingPanel).show(self.result.readings[event.option_index],
                                               len(self.alikes[event.option_index]))
 
     # ── teaching ───────────────────────────────────────────────────────────────────────────
@@ -317,13 +322,13 @@ class TabqApp(App):
 
     # ── the other tabs ─────────────────────────────────────────────────────────────────────
     def action_tab(self, name: str) -> None:
-        self.query_one(TabbedContent).active = name
+        self._q(TabbedContent).active = name
         target = {"ask": "#question", "rows": "#rows-table", "words": "#words-table",
                   "history": "#history-table"}[name]
-        self.query_one(target).focus()
+        self._q(target).focus()
 
     def _refresh_words(self) -> None:
-        grid = self.query_one("#words-table", DataTable)
+        grid = self._q("#words-table", DataTable)
         grid.clear(columns=True)
         grid.add_columns("words", "mean", "weight", "learned", "confirmations")
         try:
@@ -334,7 +339,7 @@ class TabqApp(App):
         for e in found:
             grid.add_row(e.words, e.means, f"{e.weight:+.2f}", f"{e.learned:+.2f}",
                          str(e.support))
-        self.query_one("#words-info", Static).update(
+        self._q("#words-info", Static).update(
             f"What tabq has learned each word to mean: {len(found)} weights moved from the "
             "untaught model. confirmations = logged questions holding the words."
             if found else "Nothing learned yet: confirm an answer on the Ask tab.")
@@ -342,7 +347,7 @@ class TabqApp(App):
     def _refresh_history(self) -> None:
         if not self.session:
             return
-        grid = self.query_one("#history-table", DataTable)
+        grid = self._q("#history-table", DataTable)
         grid.clear(columns=True)
         grid.add_columns("time", "what", "question", "answer")
         labels = {"ask": "asked", "confirm": "confirmed", "typed": "typed answer",
