@@ -21,7 +21,7 @@ from .. import api
 from ..errors import TabqError
 from .learned import entries
 from .session import Comparison, Session, parse_answer, preview
-from .widgets import AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, answer_text
+from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, answer_text
 
 
 class TabqApp(App):
@@ -186,8 +186,10 @@ class TabqApp(App):
         else:
             sure = ("unsure: check the readings" if result.unsure
                     else f"{result.confidence:.0%} of the model's belief")
-            self.say((note + "  " if note else "") + f"{len(result.readings)} answers, best "
-                     f"first ({sure}).  y: yes, this one · n: none of these · d: compare",
+            listed = min(len(result.readings), SHOWN)
+            self.say((note + "  " if note else "") + f"{len(result.readings)} distinct answers, "
+                     f"best {listed} listed ({sure}).  y: yes, this one · n: none of these · "
+                     "d: compare",
                      "warn" if result.unsure and not note else "good" if note else "info")
             answers.focus()
         self._refresh_history()
