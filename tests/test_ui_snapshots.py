@@ -11,8 +11,14 @@ APP = ROOT / "tests" / "fixtures" / "ui_app.py"
 SIZE = (100, 32)
 
 
+def _steady(app) -> None:
+    """No blinking cursor: a loaded machine would catch it on or off."""
+    app._q("#question").cursor_blink = False
+
+
 async def _answered(pilot, question: str) -> None:
     app = pilot.app
+    _steady(app)
     await pilot.press(*question, "enter")
     for _ in range(1200):
         if app.result is not None and not app.workers:
@@ -23,10 +29,14 @@ async def _answered(pilot, question: str) -> None:
 
 def test_snapshot_start(snap_compare):
     async def loaded(pilot):
-        for _ in range(600):
-            if pilot.app.session is not None and not pilot.app.workers:
+        app = pilot.app
+        _steady(app)
+        for _ in range(1200):
+            if (app.session is not None and not app.workers
+                    and app._q("#rows-table").row_count and app._q("#words-table").columns):
                 break
             await pilot.pause(0.05)
+        await pilot.pause(0.3)
     assert snap_compare(str(APP), terminal_size=SIZE, run_before=loaded)
 
 
