@@ -74,7 +74,7 @@ def clean(value):
 
 def norm(value) -> tuple:
     """The comparable form of one value: ("n", float) or ("s", text)."""
-    if isinstance(value, tuple):
+    if isinstance(value, (tuple, list)):   # a row of a per-group table (a list once in JSON)
         return ("t", tuple(norm(v) for v in value))
     if isinstance(value, bool):
         return ("s", "yes" if value else "no")

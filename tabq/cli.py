@@ -19,6 +19,7 @@ EXAMPLES = {
     "lexicon import": "tabq lexicon import team-words.json --model my-model --merge",
     "lexicon show": "tabq lexicon show --model team-model --word refunds",
     "lexicon diff": "tabq lexicon diff team-words-v1.json team-words-v2.json",
+    "ui": "tabq ui sample_tables/repair_jobs.csv --model team-model",
 }
 
 
@@ -78,6 +79,18 @@ def _parser() -> argparse.ArgumentParser:
                                epilog=f"example: {EXAMPLES['demo']}")
     demo.set_defaults(run=_demo)
     _lexicon_parser(commands)
+
+    ui = commands.add_parser("ui", help="the terminal app: ask, confirm answers, teach",
+                             description="Open a table in the terminal app: ask questions, "
+                             "confirm or correct answers, compare look-alike readings; each "
+                             "confirmation teaches the model folder at once.",
+                             epilog=f"example: {EXAMPLES['ui']}")
+    ui.add_argument("table", help="a CSV, TSV, Parquet, JSON-lines, Excel or SQLite file")
+    ui.add_argument("--table", dest="table_name", metavar="NAME",
+                    help="which table or sheet of a SQLite or Excel file")
+    ui.add_argument("--model", metavar="DIR",
+                    help="the model folder to teach (default: your per-user tabq folder)")
+    ui.set_defaults(run=_ui)
     return parser
 
 
@@ -329,6 +342,12 @@ def _eval(args: argparse.Namespace) -> int:
           f"{result.seconds_per_question * 1000:.0f} ms per question")
     for kind, (right, n) in result.by_kind.items():
         print(f"  {kind:18s} {right:4d}/{n:<4d} {right / n:.0%}")
+    return 0
+
+
+def _ui(args: argparse.Namespace) -> int:
+    from .ui import run
+    run(args.table, args.model, args.table_name)
     return 0
 
 

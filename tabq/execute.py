@@ -22,7 +22,7 @@ from . import logic as L
 from .answers import Denotation, clean
 from .errors import QueryError
 from .load import ROW, Table
-from .sql import aggregate, column, compile_form, render, select, where
+from .sql import aggregate, column, compile_form, on_rows, render, select, where
 
 QUERY_SECONDS = 5.0
 MAX_ROWS = 1000          # rows of one answer kept; more is not an answer anyone reads
@@ -194,6 +194,16 @@ def _batches(groups) -> list[list[L.Answer]]:
     for forms in groups:
         out += [forms[i:i + FUSE_WIDTH] for i in range(0, len(forms), FUSE_WIDTH)]
     return out
+
+
+def run_on_rows(table: Table, form: L.Answer, rows: tuple[int, ...],
+                seconds: float = QUERY_SECONDS) -> Denotation:
+    """The answer of a form on some rows of the table only (listed by ROW), cached by SQL."""
+    sql = on_rows(form, rows)
+    cache = _answers(table)
+    if sql not in cache:
+        cache[sql] = _execute(table, sql, seconds, isinstance(form, L.GroupTable))
+    return cache[sql]
 
 
 # ── DuckDB, bounded ───────────────────────────────────────────────────────────────────────────

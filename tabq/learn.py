@@ -23,6 +23,7 @@ import numpy as np
 
 from .answers import matches
 from .api import OpenTable
+from .execute import run_on_rows
 from .model import Model
 
 OBJECTIVES = ("hinge", "likelihood")
@@ -46,13 +47,29 @@ class Example:
 
 
 def candidates(table: OpenTable, question: str, gold: list,
-               execute: int = TRAIN_EXECUTE) -> Example:
-    """The model's candidates for a question, each marked by whether it gives the gold answer."""
+               execute: int = TRAIN_EXECUTE, rows: list[int] | None = None,
+               rows_gold: list | None = None, meant: str | None = None) -> Example:
+    """The model's candidates for a question, each marked by whether it gives the gold answer.
+
+    An analyst who picks between readings that agree on the whole table says more: with `rows`
+    and `rows_gold` (the answer on those rows alone) a candidate is consistent only when it
+    gives both; with `meant` (a form's canonical text, when no rows tell the readings apart)
+    only that form is.
+    """
     result = table.ask(question, execute=execute)
     cands = result.candidates
+    correct = [not c.error and matches(c.answer, gold) for c in cands]
+    if rows and rows_gold is not None:
+        correct = [ok and _gives(table, c.form, rows, rows_gold) for ok, c in zip(correct, cands)]
+    if meant is not None:
+        correct = [ok and str(c.form) == meant for ok, c in zip(correct, cands)]
     return Example(question, list(gold), [str(c.form) for c in cands],
-                   [_size(c.form) for c in cands], [c.features for c in cands],
-                   [not c.error and matches(c.answer, gold) for c in cands])
+                   [_size(c.form) for c in cands], [c.features for c in cands], correct)
+
+
+def _gives(table: OpenTable, form, rows: list[int], gold: list) -> bool:
+    den = run_on_rows(table.table, form, tuple(rows))
+    return not den.error and matches(den.values, gold)
 
 
 def _size(form) -> int:

@@ -192,7 +192,8 @@ def _support(log: list[dict], model: Model) -> tuple[Counter, int, int]:
     """Support of every feature, the confirmations counted, and how many could not be checked."""
     support: Counter = Counter()
     confirmations = unknown = 0
-    records = since_replace(log)
+    from .teaching import live      # retracted confirmations (undo in the app) back nothing
+    records = since_replace(live(log))
     missing = [r for r in records if is_confirmation(r) and "senses" not in r]
     found = _senses_again(missing, model) if missing else {}
     for record in records:

@@ -7,6 +7,7 @@ values through literal builders. Nothing a person typed is ever parsed as SQL.
 from __future__ import annotations
 
 import datetime
+from collections.abc import Iterable
 from functools import lru_cache
 
 from sqlglot import exp
@@ -236,6 +237,21 @@ def compile_form(form: L.Answer) -> exp.Expression:
 def render(form: L.Answer, dialect: str = "duckdb") -> str:
     """SQL text of a form, rendered once per form and dialect."""
     return compile_form(form).sql(dialect=dialect)
+
+
+def on_rows(form: L.Answer, rows: Iterable[int], dialect: str = "duckdb") -> str:
+    """SQL of a form run on some rows only: each reference to the table becomes a subquery of
+    the rows whose ROW is listed (how the app finds rows where two readings differ)."""
+    listed = [exp.Literal.number(int(r)) for r in rows]
+    subset = _select(exp.Star(), where=exp.In(this=column(ROW), expressions=listed))
+
+    def restrict(node: exp.Expression) -> exp.Expression:
+        if isinstance(node, exp.Table) and node.name == TABLE:
+            return exp.Subquery(this=subset.copy(), alias=exp.TableAlias(
+                this=exp.to_identifier(TABLE, quoted=True)))
+        return node
+
+    return compile_form(form).transform(restrict, copy=True).sql(dialect=dialect)
 
 
 def has_value(col: str, value: L.Literal) -> str:

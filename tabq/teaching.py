@@ -117,7 +117,9 @@ def _learning_batch(jobs: list[Job], execute: int) -> list[tuple[str, Example | 
         return [(job.id, f"table: {err}") for job in jobs]
     for job in jobs:
         try:
-            out.append((job.id, candidates(table, job.question, job.answer, execute)))
+            out.append((job.id, candidates(table, job.question, job.answer, execute,
+                                           job.extra.get("rows"), job.extra.get("rows_answer"),
+                                           job.extra.get("meant"))))
         except TabqError as err:
             out.append((job.id, str(err)))
     return out
@@ -182,18 +184,32 @@ class TeachReport:
     replayed: int
     skipped: list[str]          # ids whose question or table failed
     not_simplest: int = 0       # targets larger than the simplest reading giving the answer
+    records: list[dict] = field(default_factory=list)   # what teach() appended to the log
 
 
 def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE,
                epochs: int = EPOCHS, workers: int | None = None,
-               execute: int = TRAIN_EXECUTE) -> tuple[Model, TeachReport, dict[str, Example]]:
+               execute: int = TRAIN_EXECUTE, cache: dict[tuple, Example] | None = None,
+               ) -> tuple[Model, TeachReport, dict[str, Example]]:
     """A new model taught by these jobs (the old one is not changed).
 
     Candidates are searched with the model as it is; the examples none of whose candidates
     gave the confirmed answer are searched again with the model the others taught (what it
     learned about the team's words widens the search where it was blind), and learning runs
-    again from the old model on everything found."""
-    found = run_parallel(_learning_batch, jobs, model, execute, "learning", workers)
+    again from the old model on everything found. `cache` (by `example_key`) holds candidate
+    searches already done: a long-running caller such as the app passes one so that replayed
+    confirmations are not searched again.
+    """
+    cache = {} if cache is None else cache
+    todo = [job for job in jobs if example_key(job) not in cache]
+    found: dict[str, object] = dict(run_parallel(_learning_batch, todo, model, execute,
+                                                 "learning", workers)) if todo else {}
+    for job in todo:
+        if isinstance(found.get(job.id), Example):
+            cache[example_key(job)] = found[job.id]
+    for job in jobs:
+        if job.id not in found:
+            found[job.id] = cache[example_key(job)]
     examples = {k: v for k, v in found.items() if isinstance(v, Example)}
     skipped = [k for k, v in found.items() if not isinstance(v, Example)]
     taught, report = _train_on(model, jobs, examples, objective, epochs)
@@ -202,6 +218,7 @@ def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE
         again = run_parallel(_learning_batch, unreached, taught, execute, "searching again",
                              workers)
         found_now = {k: v for k, v in again.items() if isinstance(v, Example) and v.reachable}
+        cache.update((example_key(j), found_now[j.id]) for j in unreached if j.id in found_now)
         if found_now:
             examples.update(found_now)
             taught, report = _train_on(model, jobs, examples, objective, epochs)
@@ -216,28 +233,61 @@ def _train_on(model: Model, jobs: list[Job], examples: dict[str, Example], objec
     return train(model, ordered, objective, epochs, weight=lambda i: weights[i])
 
 
+def example_key(job: Job) -> tuple:
+    """What decides a candidate search's outcome besides the model: the cache key."""
+    return (job.table, job.question, json.dumps(job.answer, sort_keys=True),
+            json.dumps({k: job.extra.get(k) for k in ("rows", "rows_answer", "meant")}, sort_keys=True))
+
+
+def live(log: list[dict]) -> list[dict]:
+    """The confirmations of a log that still count: retraction records and the confirmations
+    they retract are left out (both stay in the log: nothing taught is ever lost)."""
+    retracted = {(r["retract"], r.get("of_batch")) for r in log if "retract" in r}
+    return [r for r in log if "retract" not in r
+            and (r.get("id"), r.get("batch")) not in retracted]
+
+
 def teach(folder: ModelFolder, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE,
-          epochs: int = EPOCHS, workers: int | None = None) -> TeachReport:
+          epochs: int = EPOCHS, workers: int | None = None,
+          cache: dict[tuple, Example] | None = None) -> TeachReport:
     """Teach a model folder: learn from the new jobs plus a replay of recent confirmations,
     then log the new ones and save, all under the folder's lock."""
     with folder.locked():
         log = folder.read_log()
-        batch = 1 + max((r.get("batch", 0) for r in log), default=0)
-        replay = [_job_of(r) for r in _replayable(log)[-REPLAY:]]
+        batch = _next_batch(log)
+        replay = [_job_of(r) for r in _replayable(live(log))[-REPLAY:]]
         model = folder.load()
-        taught, report, examples = learn_from(model, replay + jobs, objective, epochs, workers)
+        taught, report, examples = learn_from(model, replay + jobs, objective, epochs, workers,
+                                              cache=cache)
         records = [_record(job, examples.get(job.id), batch) for job in jobs]
         folder.append_log(records)
         folder.save(taught, objective=objective, batches=batch)
-    report.replayed = len(replay)
+    report.replayed, report.records = len(replay), records
     report.taught -= len([j for j in replay if j.id in examples])
     return report
 
 
+def retract(folder: ModelFolder, record: dict, before: Model | None = None,
+            objective: str = DEFAULT_OBJECTIVE, epochs: int = EPOCHS,
+            cache: dict[tuple, Example] | None = None) -> Model:
+    """Take back one logged confirmation: append a retraction record, then save the weights
+    without it — `before` (the weights saved just before it was taught) when it is still the
+    last batch of the log, else the model rebuilt from the log. Returns the saved model."""
+    with folder.locked():
+        log = folder.read_log()
+        last = _next_batch(log) - 1
+        folder.append_log([{"retract": record["id"], "of_batch": record["batch"],
+                            "time": _now(), "batch": last + 1}])
+        if before is None or record["batch"] != last:
+            before = rebuild(folder, objective, epochs, workers=1, cache=cache)
+        folder.save(before, objective=objective, batches=last + 1)
+    return before
+
+
 def rebuild(folder: ModelFolder, objective: str = DEFAULT_OBJECTIVE, epochs: int = EPOCHS,
-            workers: int | None = None) -> Model:
+            workers: int | None = None, cache: dict[tuple, Example] | None = None) -> Model:
     """The model the log describes: every batch taught again, in order, from the prior."""
-    log = folder.read_log()
+    log = live(folder.read_log())
     model = Model.prior()
     batches: dict[int, list[dict]] = defaultdict(list)
     for record in log:
@@ -253,7 +303,7 @@ def rebuild(folder: ModelFolder, objective: str = DEFAULT_OBJECTIVE, epochs: int
             continue
         replay = [_job_of(r) for r in seen[-REPLAY:]]
         new = [_job_of(r) for r in confirmed]
-        model, _, _ = learn_from(model, replay + new, objective, epochs, workers)
+        model, _, _ = learn_from(model, replay + new, objective, epochs, workers, cache=cache)
         seen += confirmed
     return model
 
@@ -261,6 +311,17 @@ def rebuild(folder: ModelFolder, objective: str = DEFAULT_OBJECTIVE, epochs: int
 def _replayable(log: list[dict]) -> list[dict]:
     """Confirmations still in force: those after the last lexicon import that replaced all."""
     return [r for r in since_replace(log) if is_confirmation(r)]
+
+
+EXTRA = ("strength", "rows", "rows_answer", "meant")   # Job.extra keys a log record keeps
+
+
+def _next_batch(log: list[dict]) -> int:
+    return 1 + max((r.get("batch", 0) for r in log), default=0)
+
+
+def _now() -> str:
+    return datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds")
 
 
 def _record(job: Job, example: Example | None, batch: int) -> dict:
@@ -271,9 +332,8 @@ def _record(job: Job, example: Example | None, batch: int) -> dict:
     return {"id": job.id, "question": job.question, "table": job.table,
             "fingerprint": _fingerprint(job.table), "answer": job.answer, "query": target,
             "senses": fired,   # what the query means, for the lexicon's support counts
-            "time": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
-            "batch": batch, **({"strength": job.extra["strength"]} if "strength" in job.extra
-                               else {})}
+            "time": _now(), "batch": batch,
+            **{k: job.extra[k] for k in EXTRA if k in job.extra}}
 
 
 def _fingerprint(table: str) -> str | None:
@@ -289,7 +349,7 @@ def _fingerprint(table: str) -> str | None:
 
 
 def _job_of(record: dict) -> Job:
-    extra = {"strength": record["strength"]} if "strength" in record else {}
+    extra = {k: record[k] for k in EXTRA if k in record}
     return Job(f"log:{record.get('batch')}:{record.get('id')}", record["question"],
                record["table"], record["answer"], extra=extra)
 

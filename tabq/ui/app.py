@@ -1,0 +1,358 @@
+"""`tabq ui TABLE`: ask a table questions and teach tabq by confirming answers.
+
+Slow work (loading, asking, teaching, comparing readings) runs in thread workers; the screen only
+shows results. Each question gets a number, and a result that arrives for an older number than
+the one last asked is dropped.
+"""
+
+from __future__ import annotations
+
+import threading
+from pathlib import Path
+
+from rich.text import Text
+from textual import work
+from textual.app import App, ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal
+from textual.widgets import DataTable, Footer, Input, Static, TabbedContent, TabPane
+
+from .. import api
+from ..errors import TabqError
+from .learned import entries
+from .session import Comparison, Session, parse_answer, preview
+from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, answer_text
+
+
+class TabqApp(App):
+    """Ask a table in plain English; confirm, correct or clarify answers to teach the model."""
+
+    CSS_PATH = "tabq.tcss"
+    TITLE = "tabq"
+    BINDINGS = [
+        Binding("ctrl+q", "quit", "Quit", priority=True),
+        Binding("f2", "tab('ask')", "Ask"),
+        Binding("f3", "tab('rows')", "Table"),
+        Binding("f4", "tab('words')", "Words"),
+        Binding("f5", "tab('history')", "History"),
+        Binding("ctrl+z", "undo", "Undo last confirm"),
+    ]
+
+    def __init__(self, path: str | Path, model: str | Path | None = None,
+                 table: str | None = None):
+        super().__init__()
+        self.source = (path, model, table)
+        self.session: Session | None = None
+        self.loaded = threading.Event()
+        self.result: api.Result | None = None
+        self.alikes: list[list[api.Reading]] = []
+        self.asked = 0            # number of the latest question; older results are dropped
+
+    # ── layout ─────────────────────────────────────────────────────────────────────────────
+    def compose(self) -> ComposeResult:
+        yield Static(Text("tabq", style="bold") + Text(f"  {Path(self.source[0]).name}  "
+                                                      "loading…"), id="bar")
+        with TabbedContent(initial="ask", id="tabs"):
+            with TabPane("Ask", id="ask"):
+                yield Input(placeholder="Ask the table a question, then press enter",
+                            id="question")
+                yield Static("", id="status")
+                with Horizontal(id="work"):
+                    yield AnswerList(id="answers")
+                    yield ReadingPanel(id="detail")
+            with TabPane("Table", id="rows"):
+                yield Static("", id="rows-info")
+                yield DataTable(id="rows-table", zebra_stripes=True)
+            with TabPane("Words", id="words"):
+                yield Static("What tabq has learned each word to mean (changes from the "
+                             "untaught model).", id="words-info")
+                yield DataTable(id="words-table", cursor_type="row")
+            with TabPane("History", id="history"):
+                yield Static("This session: questions and confirmations. ctrl+z takes back "
+                             "the last confirmation.", id="history-info")
+                yield DataTable(id="history-table", cursor_type="row")
+        yield Footer()
+
+    def on_mount(self) -> None:
+        self._q("#question", Input).focus()
+        self._q(ReadingPanel).show(None)
+        self.load()
+
+    def _q(self, selector, expect=None):
+        """A widget of the main screen, also while a prompt is open above it."""
+        base = self.screen_stack[0] if self.screen_stack else self
+        return base.query_one(selector, expect) if expect else base.query_one(selector)
+
+    # ── messages in the status line ─────────────────────────────────────────────────────────
+    def say(self, text: str, tone: str = "info") -> None:
+        colour = {"info": "#8a94a0", "good": "#7fc97f", "warn": "#c9a25a",
+                  "bad": "#e0685f"}[tone]
+        self._q("#status", Static).update(Text(text, style=colour))
+
+    def fail(self, err: BaseException) -> None:
+        if isinstance(err, TabqError):
+            self.say(f"tabq: {' '.join(str(err).split())[:300]}", "bad")
+        else:   # a bug of ours: still a message, never a crash
+            self.say(f"internal error ({err.__class__.__name__}): {err}"[:300], "bad")
+
+    # ── loading ────────────────────────────────────────────────────────────────────────────
+    @work(thread=True, group="load")
+    def load(self) -> None:
+        path, model, table = self.source
+        try:
+            session = Session(path, model, table)
+        except Exception as err:       # bad table or model: shown, and the app stays up
+            self.call_from_thread(self.fail, err)
+            self.call_from_thread(self._bar, f"{Path(path).name}  (not loaded)")
+            return
+        self.session = session
+        self.loaded.set()
+        self.call_from_thread(self._loaded)
+        try:
+            session.warm()
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+
+    def _bar(self, text: str) -> None:
+        self._q("#bar", Static).update(Text("tabq", style="bold") + Text(f"  {text}"))
+
+    def _loaded(self) -> None:
+        s = self.session
+        t = s.open.table
+        self._bar(f"{Path(t.path).name}  ·  {t.row_count} rows  ·  model {s.folder.path}")
+        if not self.result:
+            self.say("Type a question and press enter.")
+        self._fill_rows()
+        self._refresh_words()
+
+    def _fill_rows(self) -> None:
+        t = self.session.open.table
+        cols = [c for c in t.columns]
+        grid = self._q("#rows-table", DataTable)
+        grid.clear(columns=True)
+        for c in cols:
+            grid.add_column(c.header if c.view is None else f"{c.header} → {c.view}",
+                            key=c.name)
+        with self.session.lock:
+            rows = preview(t, [c.name for c in cols])
+        grid.add_rows([tuple("·" if v is None else str(v) for v in row) for row in rows])
+        views = [f"{c.header} → {c.view}" for c in cols if c.view]
+        info = f"{t.row_count} rows, {len(cols) - len(views)} columns"
+        if len(rows) < t.row_count:
+            info += f", first {len(rows)} shown"
+        info += (f"; typed views of messy columns: {', '.join(views)}" if views
+                 else "; no messy columns needed typed views")
+        self._q("#rows-info", Static).update(info)
+
+    # ── asking ─────────────────────────────────────────────────────────────────────────────
+    def on_input_submitted(self, event: Input.Submitted) -> None:
+        if event.input.id != "question":
+            return
+        question = event.value.strip()
+        if not question:
+            self.say("Type a question first.", "warn")
+            return
+        self.asked += 1
+        self.say(f"asking: {question}")
+        self.ask(question, self.asked)
+
+    @work(thread=True, exclusive=True, group="ask")
+    def ask(self, question: str, number: int, note: str = "") -> None:
+        self.loaded.wait()
+        try:
+            result = self.session.ask(question)
+        except Exception as err:
+            self.call_from_thread(self._failed_ask, err, number)
+            return
+        self.call_from_thread(self.show, result, number, note)
+
+    def _failed_ask(self, err: BaseException, number: int) -> None:
+        if number == self.asked:
+            self.fail(err)
+            self._refresh_history()
+
+    def show(self, result: api.Result, number: int, note: str = "") -> None:
+        """Show a result, unless a newer question was asked since (then it is dropped)."""
+        if number != self.asked:
+            return
+        self.result = result
+        self.alikes = [self.session.look_alikes(result, r) for r in result.readings]
+        answers = self._q(AnswerList)
+        answers.show(result, [len(a) for a in self.alikes])
+        self._q(ReadingPanel).show(result.best, len(self.alikes[0]) if result.best
+                                          else 1)
+        if not result.best:
+            self.say("No reading of this question fits the table.", "warn")
+        else:
+            sure = ("unsure: check the readings" if result.unsure
+                    else f"{result.confidence:.0%} of the model's belief")
+            listed = min(len(result.readings), SHOWN)
+            self.say((note + "  " if note else "") + f"{len(result.readings)} distinct answers, "
+                     f"best {listed} listed ({sure}).  y: yes, this one · n: none of these · "
+                     "d: compare",
+                     "warn" if result.unsure and not note else "good" if note else "info")
+            answers.focus()
+        self._refresh_history()
+
+    def on_option_list_option_highlighted(self, event: AnswerList.OptionHighlighted) -> None:
+        if self.screen_stack and self.result and event.option_index < len(self.result.readings):
+            self._q(ReadingPanel).show(self.result.readings[event.option_index],
+                                              len(self.alikes[event.option_index]))
+
+    # ── teaching ───────────────────────────────────────────────────────────────────────────
+    def on_answer_list_chosen(self, event: AnswerList.Chosen) -> None:
+        if not self.result or event.index is None or not self.result.readings:
+            return
+        reading = self.result.readings[event.index]
+        if event.action == "confirm":
+            if reading.error or not reading.answer:
+                self.say("An empty or failed reading cannot be confirmed: press n and type "
+                         "the right answer.", "warn")
+                return
+            self.say("learning…")
+            self.teach(self.result.question, reading.answer)
+        elif event.action == "none":
+            question = self.result.question
+            self.push_screen(AnswerPrompt(question),
+                             lambda typed: typed and self.search_typed(question, typed))
+        elif event.action == "compare":
+            if len(self.alikes[event.index]) < 2:
+                self.say("Only one reading gives this answer: nothing to compare.", "warn")
+                return
+            self.say("looking for rows where the readings differ…")
+            self.compare(self.result.question, self.alikes[event.index])
+
+    @work(thread=True, group="teach")
+    def teach(self, question: str, answer: list, kind: str = "confirm",
+              extra: dict | None = None) -> None:
+        try:
+            taught = self.session.confirm(question, answer, kind, extra)
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+            return
+        self.call_from_thread(self._taught, taught.question, taught.seconds, taught.reachable,
+                              taught.kind)
+
+    def _taught(self, question: str, seconds: float, reachable: bool, kind: str) -> None:
+        what = {"confirm": "confirmed", "typed": "taught your answer",
+                "pick": "taught the meant reading"}[kind]
+        note = (f"{what} and logged in {seconds:.1f} s; answers re-ranked" if reachable else
+                f"logged, but no reading gives that answer yet ({seconds:.1f} s)")
+        self._refresh_words()
+        self.asked += 1
+        self.ask(question, self.asked, note)
+
+    @work(thread=True, group="teach")
+    def search_typed(self, question: str, typed: str) -> None:
+        """'None of these': find readings that give the typed answer, then teach or compare."""
+        values = parse_answer(typed)
+        try:
+            hits = self.session.readings_giving(self.result, values)
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+            return
+        if not hits:
+            self.call_from_thread(self.say, f"No reading of the question gives {typed}; "
+                                  "nothing was taught. Try rephrasing.", "warn")
+            return
+        groups = self.session.look_alikes(self.result, hits[0]) if hits[0] in \
+            self.result.candidates else []
+        readings = hits[:3] if len(hits) > 1 else groups
+        if len(readings) > 1:
+            try:
+                comparison = self.session.compare(readings)
+            except Exception as err:
+                self.call_from_thread(self.fail, err)
+                return
+            self.call_from_thread(self._ask_pick, question, comparison)
+            return
+        self.call_from_thread(self.say, f"one reading gives {typed}: "
+                              f"{hits[0].paraphrase}; learning…")
+        self.teach(question, hits[0].answer, "typed")
+
+    @work(thread=True, group="teach")
+    def compare(self, question: str, readings: list[api.Reading]) -> None:
+        try:
+            comparison = self.session.compare(readings)
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+            return
+        self.call_from_thread(self._ask_pick, question, comparison)
+
+    def _ask_pick(self, question: str, comparison: Comparison) -> None:
+        answer = answer_text(comparison.readings[0]).plain
+        self.say("Pick the reading you meant: 1, 2 or 3.")
+
+        def picked(index: int | None) -> None:
+            if index is None:
+                self.say("Nothing was taught.")
+                return
+            self.say("learning the meant reading…")
+            self.pick(question, comparison, index)
+        self.push_screen(CompareScreen(comparison, answer), picked)
+
+    @work(thread=True, group="teach")
+    def pick(self, question: str, comparison: Comparison, index: int) -> None:
+        try:
+            taught = self.session.pick(question, comparison, index)
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+            return
+        self.call_from_thread(self._taught, taught.question, taught.seconds, taught.reachable,
+                              "pick")
+
+    def action_undo(self) -> None:
+        if not self.session or not self.session.taught:
+            self.say("Nothing to take back in this session.", "warn")
+            return
+        self.say("taking back the last confirmation…")
+        self.undo()
+
+    @work(thread=True, group="teach")
+    def undo(self) -> None:
+        try:
+            last = self.session.undo()
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+            return
+        self.call_from_thread(self._undone, last.question, last.answer)
+
+    def _undone(self, question: str, answer: list) -> None:
+        self._refresh_words()
+        self.asked += 1
+        self.ask(question, self.asked, f"took back {answer!r} (a retraction is logged)")
+
+    # ── the other tabs ─────────────────────────────────────────────────────────────────────
+    def action_tab(self, name: str) -> None:
+        self._q(TabbedContent).active = name
+        target = {"ask": "#question", "rows": "#rows-table", "words": "#words-table",
+                  "history": "#history-table"}[name]
+        self._q(target).focus()
+
+    def _refresh_words(self) -> None:
+        grid = self._q("#words-table", DataTable)
+        grid.clear(columns=True)
+        grid.add_columns("words", "mean", "weight", "learned", "confirmations")
+        try:
+            found = entries(self.session.open.model, self.session.folder.read_log())
+        except TabqError as err:
+            self.fail(err)
+            return
+        for e in found:
+            grid.add_row(e.words, e.means, f"{e.weight:+.2f}", f"{e.learned:+.2f}",
+                         str(e.support))
+        self._q("#words-info", Static).update(
+            f"What tabq has learned each word to mean: {len(found)} weights moved from the "
+            "untaught model. confirmations = logged questions holding the words."
+            if found else "Nothing learned yet: confirm an answer on the Ask tab.")
+
+    def _refresh_history(self) -> None:
+        if not self.session:
+            return
+        grid = self._q("#history-table", DataTable)
+        grid.clear(columns=True)
+        grid.add_columns("time", "what", "question", "answer")
+        labels = {"ask": "asked", "confirm": "confirmed", "typed": "typed answer",
+                  "pick": "picked reading", "undo": "took back"}
+        for e in reversed(self.session.history):
+            grid.add_row(e.clock, labels.get(e.kind, e.kind), e.question, e.detail)
