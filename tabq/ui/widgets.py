@@ -20,7 +20,7 @@ from .session import Comparison
 
 SQL_THEME = "native"
 METER = 8                # cells of the confidence meter
-SHOWN = 8                # distinct answers listed: a glance, not a report
+SHOWN = 12               # distinct answers listed: a glance, not a report
 
 
 def answer_text(reading: api.Reading, most: int = 6) -> Text:
