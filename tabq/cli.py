@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from pathlib import Path
 
@@ -222,6 +223,9 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("tabq: stopped", file=sys.stderr)
         return 130
+    except BrokenPipeError:     # `tabq ask … | head`: the reader left, which is not an error
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
     except Exception as err:  # a bug of ours: still one line, never a traceback
         print(f"tabq: internal error ({err.__class__.__name__}): {_one_line(str(err))}",
               file=sys.stderr)

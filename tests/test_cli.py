@@ -72,3 +72,15 @@ def test_demo_runs(tmp_path):
     out = tabq("demo", timeout=300)
     assert out.returncode == 0
     assert out.stdout.count("Q: ") >= 8 and "SQL:" in out.stdout
+
+
+def test_a_reader_that_leaves_early_is_not_an_error(demo_csv):
+    # `tabq ask … --json | head -c 1`: the pipe closes before tabq has written everything
+    proc = subprocess.Popen([sys.executable, "-m", "tabq", "ask", str(demo_csv),
+                             "how many jobs were cancelled", "--json", "--top", "50"],
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+    proc.stdout.read(1)
+    proc.stdout.close()
+    err = proc.stderr.read().decode()
+    assert proc.wait(timeout=120) == 0
+    assert "error" not in err and "Traceback" not in err
