@@ -22,6 +22,7 @@ from .text import DateMention, Words, normalise, read_question, split_words, ste
 MAX_QUESTION = 2000      # characters; longer questions are cut, and the result says so
 MAX_NGRAM = 6
 FLOATING_VALUES = 12     # a column with at most this many values offers them without a mention
+UNEXPLAINED_WORDS = 6    # words a floating value may stand on (a long question would multiply them)
 OPERATORS = {
     "CMP": ("gt", "lt", "ge", "le"), "AGG": ("sum", "avg", "min", "max", "median"),
     "DIR": ("max", "min"), "POS": ("first", "last"), "STEP": ("next", "prev"),
@@ -405,7 +406,7 @@ def _unexplained_words(words, found, col_spans, content) -> list[int]:
                  for i in range(*a.span)}
     explained |= {i for span in col_spans.values() for i in range(*span)}
     return [i for i in sorted(content) if i not in explained
-            and not any(ch.isdigit() for ch in words.tokens[i].text)]
+            and not any(ch.isdigit() for ch in words.tokens[i].text)][:UNEXPLAINED_WORDS]
 
 
 def _typed(col: Column, value):
