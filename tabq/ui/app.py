@@ -259,12 +259,7 @@ class TabqApp(App):
             self.result.candidates else []
         readings = hits[:3] if len(hits) > 1 else groups
         if len(readings) > 1:
-            try:
-                comparison = self.session.compare(readings)
-            except Exception as err:
-                self.call_from_thread(self.fail, err)
-                return
-            self.call_from_thread(self._ask_pick, question, comparison)
+            self._offer_pick(question, readings)
             return
         self.call_from_thread(self.say, f"one reading gives {typed}: "
                               f"{hits[0].paraphrase}; learning…")
@@ -272,6 +267,10 @@ class TabqApp(App):
 
     @work(thread=True, group="teach")
     def compare(self, question: str, readings: list[api.Reading]) -> None:
+        self._offer_pick(question, readings)
+
+    def _offer_pick(self, question: str, readings: list[api.Reading]) -> None:
+        """(In a worker thread.) Compare the readings, then ask the analyst to pick one."""
         try:
             comparison = self.session.compare(readings)
         except Exception as err:
