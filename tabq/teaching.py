@@ -236,7 +236,7 @@ def _train_on(model: Model, jobs: list[Job], examples: dict[str, Example], objec
 def example_key(job: Job) -> tuple:
     """What decides a candidate search's outcome besides the model: the cache key."""
     return (job.table, job.question, json.dumps(job.answer, sort_keys=True),
-            json.dumps({k: job.extra.get(k) for k in ("rows", "rows_answer", "meant")}, sort_keys=True))
+            json.dumps({k: job.extra.get(k) for k in SEARCH_EXTRA}, sort_keys=True))
 
 
 def live(log: list[dict]) -> list[dict]:
@@ -313,7 +313,8 @@ def _replayable(log: list[dict]) -> list[dict]:
     return [r for r in since_replace(log) if is_confirmation(r)]
 
 
-EXTRA = ("strength", "rows", "rows_answer", "meant")   # Job.extra keys a log record keeps
+SEARCH_EXTRA = ("rows", "rows_answer", "meant")   # Job.extra keys that change a search's outcome
+EXTRA = ("strength", *SEARCH_EXTRA)                # Job.extra keys a log record keeps
 
 
 def _next_batch(log: list[dict]) -> int:
