@@ -6,7 +6,6 @@ import argparse
 import json
 import os
 import sys
-from pathlib import Path
 
 from . import api
 from .errors import TabqError
@@ -39,8 +38,9 @@ def _parser() -> argparse.ArgumentParser:
     ask.add_argument("question", help="the question, in plain English")
     ask.add_argument("--table", dest="table_name", metavar="NAME",
                      help="which table or sheet of a SQLite or Excel file")
-    ask.add_argument("--model", metavar="DIR", help="a model folder (default: your per-user tabq folder, "
-                     "the untaught model until something is taught)")
+    ask.add_argument("--model", metavar="DIR",
+                     help="a model folder (default: your per-user tabq folder, the untaught "
+                     "model until something is taught)")
     ask.add_argument("--top", type=int, default=3, metavar="K",
                      help="how many distinct answers to show (default 3)")
     ask.add_argument("--json", action="store_true", help="print JSON instead of text")
