@@ -390,7 +390,9 @@ def _parse_json(text: str, path: Path) -> object:
     try:
         return json.loads(text, object_pairs_hook=no_repeats, parse_constant=no_constant)
     except json.JSONDecodeError as err:
-        end = " (the file looks cut short)" if err.pos >= len(text.rstrip()) else ""
+        # a string left open runs to the end of the file, but the error points at its start
+        cut = err.pos >= len(text.rstrip()) or err.msg.startswith("Unterminated string")
+        end = " (the file looks cut short)" if cut else ""
         raise LexiconError(f"{path}: not valid JSON at line {err.lineno} column {err.colno}: "
                            f"{err.msg}{end}") from None
     except RecursionError:
