@@ -15,7 +15,7 @@ from pathlib import Path
 from . import logic as L
 from .analyse import Analysis, analyse
 from .answers import Denotation
-from .derive import Item, derive
+from .derive import PAIR_BEAM, Item, derive
 from .execute import run_many
 from .features import ANSWER_FEATURES, answer_score_bound
 from .load import Table, load_table
@@ -94,18 +94,19 @@ class OpenTable:
         return analyse(question, self.table)
 
     def ask(self, question: str, execute: int = EXECUTE,
-            seconds: float = QUESTION_SECONDS) -> Result:
+            seconds: float = QUESTION_SECONDS, pair_beam: int = PAIR_BEAM) -> Result:
         """Answer a question: every distinct answer, best first, with the SQL behind it.
 
         The best `execute` candidates by the features that need no answer are run, best first
         and in batches; the rest are skipped once they can no longer change the SETTLED best
         distinct readings nor hold more than MASS_TOLERANCE of the probability, whatever their
         answers (`features.answer_score_bound`). So the answer is the one running them all
-        would give under the same model.
+        would give under the same model. `pair_beam` widens the search of two-sided
+        conditions (teaching does, where a new word's reading may rank low before it is learned).
         """
         started = time.monotonic()
         analysis = self.analyse(question)
-        items = derive(analysis, self.model)[:execute]
+        items = derive(analysis, self.model, pair_beam=pair_beam)[:execute]
         bound = answer_score_bound(analysis, self.model)
         deadline = started + seconds
         candidates: list[Reading] = []

@@ -322,7 +322,7 @@ def _eval(args: argparse.Namespace) -> int:
             model = folder.load()
         else:
             model, report, _ = learn_from(model, train_jobs, args.objective, args.epochs,
-                                          args.workers)
+                                          args.workers, fresh=train_jobs)
         trained = {"examples": report.taught, "oracle": report.reachable / max(report.taught, 1),
                    "not_simplest": report.not_simplest,
                    "seconds": round(_time.perf_counter() - start, 1)}

@@ -85,7 +85,8 @@ class Item:
 
 
 def derive(analysis: Analysis, model: Model, max_size: int = MAX_SIZE,
-           row_beam: int = ROW_BEAM, answer_beam: int = ANSWER_BEAM) -> list[Item]:
+           row_beam: int = ROW_BEAM, answer_beam: int = ANSWER_BEAM,
+           pair_beam: int = PAIR_BEAM) -> list[Item]:
     """The best candidate answer forms, best first, each with its features and score."""
     chart: dict[tuple[str, int], list[Item]] = {}
     scorer = _Scorer(analysis, model)
@@ -99,7 +100,7 @@ def derive(analysis: Analysis, model: Model, max_size: int = MAX_SIZE,
                 continue
             for sizes in _splits(size - 1, len(kids)):
                 accepts = ACCEPTS.get(rule.alias, lambda form: True)
-                width = PAIR_BEAM if len(kids) > 1 else row_beam
+                width = pair_beam if len(kids) > 1 else row_beam
                 cells = [[i for i in chart.get((k, s), []) if accepts(i.form)][:width]
                          for k, s in zip(kids, sizes)]
                 if any(not c for c in cells):

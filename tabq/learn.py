@@ -11,6 +11,12 @@ matches the confirmed one are the consistent set. Two objectives move the weight
 
 Learning only ever changes an offset from the prior, so an untaught word keeps its prior reading.
 An example with no consistent candidate makes no update; it is counted (oracle coverage).
+
+A handful of fresh confirmations (the analyst teaching a word) is then *settled*: plain hinge
+steps on those examples alone until each one's reading leads every wrong-answer reading by a
+margin. The steps move a feature by its plasticity: a pairing of a content word with a meaning
+moves fully, features of the question's frame and of structure move little — so one
+confirmation teaches what the new word means, not that every question has that shape.
 """
 
 from __future__ import annotations
@@ -23,11 +29,20 @@ import numpy as np
 
 from .answers import matches
 from .api import OpenTable
+from .derive import PAIR_BEAM
 from .execute import run_on_rows
 from .model import Model
+from .text import STOPWORDS, stem
 
 OBJECTIVES = ("hinge", "likelihood")
 TRAIN_EXECUTE = 100      # candidates executed per training example (more than when answering)
+TEACH_PAIR_BEAM = 24     # sub-forms per side of and/or when teaching a few: a new word's reading
+#                          may rank low before it is learned (wider in batch training hurt WTQ)
+TEACH_MARGIN = 2.0       # a settled confirmation leads every wrong-answer reading by this
+SETTLE_ROUNDS = 30       # passes over the fresh confirmations at most
+SETTLE_BATCH = 50        # more fresh examples than this is batch learning: no settling
+STRUCTURE_RATE = 0.2     # plasticity of frame and structure features, against 1 for a word's
+FRAME_WORDS = frozenset({stem(w) for w in STOPWORDS} | {"number"})
 
 
 @dataclass
@@ -48,7 +63,8 @@ class Example:
 
 def candidates(table: OpenTable, question: str, gold: list,
                execute: int = TRAIN_EXECUTE, rows: list[int] | None = None,
-               rows_gold: list | None = None, meant: str | None = None) -> Example:
+               rows_gold: list | None = None, meant: str | None = None,
+               pair_beam: int = PAIR_BEAM) -> Example:
     """The model's candidates for a question, each marked by whether it gives the gold answer.
 
     An analyst who picks between readings that agree on the whole table says more: with `rows`
@@ -56,7 +72,7 @@ def candidates(table: OpenTable, question: str, gold: list,
     gives both; with `meant` (a form's canonical text, when no rows tell the readings apart)
     only that form is.
     """
-    result = table.ask(question, execute=execute)
+    result = table.ask(question, execute=execute, pair_beam=pair_beam)
     cands = result.candidates
     correct = [not c.error and matches(c.answer, gold) for c in cands]
     if rows and rows_gold is not None:
@@ -189,14 +205,65 @@ def _hinge(state: _State, p: Packed, scores: np.ndarray, target: int, scale: flo
     rival = int((scores + cost).argmax())
     if p.correct[rival]:
         return 0
-    ti, tv = p.phi(target, 0)
-    ri, rv = p.phi(rival, 0)
-    step = state.rate * scale
-    np.add.at(state.delta, ti, step * tv)
-    np.add.at(state.delta, ri, -step * rv)
-    np.add.at(state.acc, ti, state.count * step * tv)
-    np.add.at(state.acc, ri, -state.count * step * rv)
+    idx, val = _difference(p, [target], rival, state.rate * scale)
+    np.add.at(state.delta, idx, val)
+    np.add.at(state.acc, idx, state.count * val)
     return 1
+
+
+def _difference(p: Packed, targets, rival: int, rate) -> tuple[np.ndarray, np.ndarray]:
+    """rate · (mean φ of the targets − φ(rival)) as sparse (index, value) pairs; `rate` is one
+    number or one per feature."""
+    parts = [p.phi(t, 0) for t in targets]
+    ri, rv = p.phi(rival, 0)
+    idx = np.concatenate([i for i, _ in parts] + [ri])
+    val = np.concatenate([v / len(parts) for _, v in parts] + [-rv])
+    return idx, val * (rate[idx] if isinstance(rate, np.ndarray) else rate)
+
+
+def settle(model: Model, examples: list[Example], margin: float = TEACH_MARGIN,
+           rate: float = 0.1, rounds: int = SETTLE_ROUNDS) -> Model:
+    """Hinge steps on these examples alone until each leads every wrong-answer reading by
+    `margin` (or `rounds` passes). Consistent readings tied at the top share the step, so the
+    settling does not pick between readings the analyst did not tell apart."""
+    settled = Model(model.as_dict())
+    packed = [pack(ex, settled) for ex in examples if ex.reachable and not all(ex.correct)]
+    rates = rate * _plasticities(settled)
+    w = settled.w.copy()
+    for _ in range(rounds):
+        moved = False
+        for p in packed:
+            scores = p.scores(w)
+            best, worst = scores[p.correct].max(), scores[~p.correct].max()
+            if best - worst >= margin:
+                continue
+            targets = np.flatnonzero(p.correct & (scores >= best - 1e-9))
+            rival = int(np.flatnonzero(~p.correct)[scores[~p.correct].argmax()])
+            idx, val = _difference(p, targets, rival, rates)
+            np.add.at(w, idx, val)
+            moved = True
+        if not moved:
+            break
+    settled.w = w
+    settled.version += 1
+    return settled
+
+
+def plasticity(name: str) -> float:
+    """How far a settling step moves this feature: 1 for a content word paired with a meaning,
+    STRUCTURE_RATE for the rest (frame words, the question type, structure, answer shape)."""
+    kind, _, rest = name.partition(":")
+    if kind not in ("lex", "lexcol", "lexval") or rest.startswith("qtype:"):
+        return STRUCTURE_RATE
+    gram = rest.split("|", 1)[0]
+    return 1.0 if any(word not in FRAME_WORDS for word in gram.split()) else STRUCTURE_RATE
+
+
+def _plasticities(model: Model) -> np.ndarray:
+    rates = np.full(len(model.w), STRUCTURE_RATE)
+    for name, i in model.index.items():
+        rates[i] = plasticity(name)
+    return rates
 
 
 def _likelihood(state: _State, p: Packed, scores: np.ndarray, target: int, scale: float) -> int:

@@ -24,7 +24,9 @@ from tqdm import tqdm
 from . import api
 from .answers import matches
 from .errors import InputError, TabqError
-from .learn import TRAIN_EXECUTE, Example, candidates, train
+from .derive import PAIR_BEAM
+from .learn import (SETTLE_BATCH, TEACH_PAIR_BEAM, TRAIN_EXECUTE, Example, candidates,
+                    settle, train)
 from .lexicon import apply_import, is_confirmation, senses, since_replace
 from .model import Model
 from .store import ModelFolder
@@ -109,7 +111,8 @@ def _by_table(jobs: list[Job]) -> list[list[Job]]:
     return list(groups.values())
 
 
-def _learning_batch(jobs: list[Job], execute: int) -> list[tuple[str, Example | str]]:
+def _learning_batch(jobs: list[Job], execute: int,
+                    pair_beam: int = PAIR_BEAM) -> list[tuple[str, Example | str]]:
     out = []
     try:
         table = api.OpenTable(api.load_table(jobs[0].table), _WORKER_MODEL)
@@ -119,7 +122,7 @@ def _learning_batch(jobs: list[Job], execute: int) -> list[tuple[str, Example | 
         try:
             out.append((job.id, candidates(table, job.question, job.answer, execute,
                                            job.extra.get("rows"), job.extra.get("rows_answer"),
-                                           job.extra.get("meant"))))
+                                           job.extra.get("meant"), pair_beam)))
         except TabqError as err:
             out.append((job.id, str(err)))
     return out
@@ -151,8 +154,9 @@ def _plain(values: list) -> list:
 
 
 def run_parallel(fn, jobs: list[Job], model: Model, execute: int, label: str,
-                 workers: int | None = None) -> dict[str, object]:
-    """fn over the jobs grouped by table, on up to `workers` processes, with a progress bar."""
+                 workers: int | None = None, *more) -> dict[str, object]:
+    """fn(group, execute, *more) over the jobs grouped by table, on up to `workers` processes,
+    with a progress bar."""
     workers = workers or min(2, os.cpu_count() or 1)
     groups = _by_table(jobs)
     results: dict[str, object] = {}
@@ -162,13 +166,13 @@ def run_parallel(fn, jobs: list[Job], model: Model, execute: int, label: str,
     if workers <= 1 or len(groups) <= 1:
         _init(model.as_dict())
         for group in groups:
-            results.update(fn(group, execute))
+            results.update(fn(group, execute, *more))
             bar.update(len(group))
     else:
         context = multiprocessing.get_context("fork")
         with ProcessPoolExecutor(workers, mp_context=context, initializer=_init,
                                  initargs=(model.as_dict(),)) as pool:
-            futures = [(pool.submit(fn, group, execute), len(group)) for group in groups]
+            futures = [(pool.submit(fn, group, execute, *more), len(group)) for group in groups]
             for future, n in futures:
                 results.update(future.result())
                 bar.update(n)
@@ -190,6 +194,7 @@ class TeachReport:
 def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE,
                epochs: int = EPOCHS, workers: int | None = None,
                execute: int = TRAIN_EXECUTE, cache: dict[tuple, Example] | None = None,
+               fresh: list[Job] | None = None,
                ) -> tuple[Model, TeachReport, dict[str, Example]]:
     """A new model taught by these jobs (the old one is not changed).
 
@@ -199,29 +204,39 @@ def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE
     again from the old model on everything found. `cache` (by `example_key`) holds candidate
     searches already done: a long-running caller such as the app passes one so that replayed
     confirmations are not searched again.
+
+    `fresh` names the jobs being taught now (the rest are replayed). A few of them (at most
+    SETTLE_BATCH) is an analyst teaching words: the search is wider and the fresh examples are
+    settled after training (`learn.settle`), so that one confirmation is enough. More is batch
+    learning, left to the averaged passes alone.
     """
     cache = {} if cache is None else cache
-    todo = [job for job in jobs if example_key(job) not in cache]
+    teaching = fresh is not None and len(fresh) <= SETTLE_BATCH
+    beam = TEACH_PAIR_BEAM if teaching else PAIR_BEAM
+    todo = [job for job in jobs if example_key(job, beam) not in cache]
     found: dict[str, object] = dict(run_parallel(_learning_batch, todo, model, execute,
-                                                 "learning", workers)) if todo else {}
+                                                 "learning", workers, beam)) if todo else {}
     for job in todo:
         if isinstance(found.get(job.id), Example):
-            cache[example_key(job)] = found[job.id]
+            cache[example_key(job, beam)] = found[job.id]
     for job in jobs:
         if job.id not in found:
-            found[job.id] = cache[example_key(job)]
+            found[job.id] = cache[example_key(job, beam)]
     examples = {k: v for k, v in found.items() if isinstance(v, Example)}
     skipped = [k for k, v in found.items() if not isinstance(v, Example)]
     taught, report = _train_on(model, jobs, examples, objective, epochs)
     unreached = [j for j in jobs if j.id in examples and not examples[j.id].reachable]
     if unreached and report.reachable:
         again = run_parallel(_learning_batch, unreached, taught, execute, "searching again",
-                             workers)
+                             workers, beam)
         found_now = {k: v for k, v in again.items() if isinstance(v, Example) and v.reachable}
-        cache.update((example_key(j), found_now[j.id]) for j in unreached if j.id in found_now)
+        cache.update((example_key(j, beam), found_now[j.id]) for j in unreached
+                     if j.id in found_now)
         if found_now:
             examples.update(found_now)
             taught, report = _train_on(model, jobs, examples, objective, epochs)
+    if teaching:
+        taught = settle(taught, [examples[j.id] for j in fresh if j.id in examples])
     return taught, TeachReport(report.examples, report.reachable, 0, skipped,
                                report.not_simplest), examples
 
@@ -233,10 +248,10 @@ def _train_on(model: Model, jobs: list[Job], examples: dict[str, Example], objec
     return train(model, ordered, objective, epochs, weight=lambda i: weights[i])
 
 
-def example_key(job: Job) -> tuple:
+def example_key(job: Job, pair_beam: int = PAIR_BEAM) -> tuple:
     """What decides a candidate search's outcome besides the model: the cache key."""
     return (job.table, job.question, json.dumps(job.answer, sort_keys=True),
-            json.dumps({k: job.extra.get(k) for k in SEARCH_EXTRA}, sort_keys=True))
+            json.dumps({k: job.extra.get(k) for k in SEARCH_EXTRA}, sort_keys=True), pair_beam)
 
 
 def live(log: list[dict]) -> list[dict]:
@@ -258,7 +273,7 @@ def teach(folder: ModelFolder, jobs: list[Job], objective: str = DEFAULT_OBJECTI
         replay = [_job_of(r) for r in _replayable(live(log))[-REPLAY:]]
         model = folder.load()
         taught, report, examples = learn_from(model, replay + jobs, objective, epochs, workers,
-                                              cache=cache)
+                                              cache=cache, fresh=jobs)
         records = [_record(job, examples.get(job.id), batch) for job in jobs]
         folder.append_log(records)
         folder.save(taught, objective=objective, batches=batch)
@@ -303,7 +318,8 @@ def rebuild(folder: ModelFolder, objective: str = DEFAULT_OBJECTIVE, epochs: int
             continue
         replay = [_job_of(r) for r in seen[-REPLAY:]]
         new = [_job_of(r) for r in confirmed]
-        model, _, _ = learn_from(model, replay + new, objective, epochs, workers, cache=cache)
+        model, _, _ = learn_from(model, replay + new, objective, epochs, workers, cache=cache,
+                                 fresh=new)
         seen += confirmed
     return model
 

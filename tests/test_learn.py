@@ -5,8 +5,10 @@ import math
 import numpy as np
 import pytest
 
-from tabq.learn import Example, _State, pack, train
+from tabq.learn import (STRUCTURE_RATE, TEACH_MARGIN, Example, _State, pack, plasticity, settle,
+                        train)
 from tabq.model import Model
+from tabq.text import stem
 
 
 def _example(features, correct, question="q"):
@@ -143,3 +145,55 @@ def test_pack_indexes_new_features_at_zero_and_flattens():
     assert model.weight("x") == 0.0 and "y" in model.index
     assert list(p.start) == [0, 2, 3]
     assert list(p.scores(model.w)) == pytest.approx([1.5, 0.0])
+
+
+# ── settling fresh confirmations ──────────────────────────────────────────────────────────────
+WORD = "lexval:takings|status=paid"          # a content word paired with a meaning
+FRAME = f"lex:{stem('how')} {stem('many')}|count"   # frame words only (grams are stemmed)
+STRUCTURE = "size"
+
+
+def test_plasticity_moves_a_content_word_fully_and_frame_and_structure_a_little():
+    assert plasticity(WORD) == 1.0
+    assert plasticity("lexcol:no show|status") == 1.0
+    assert plasticity("lex:of takings|sum") == 1.0          # one content word is enough
+    assert plasticity(FRAME) == STRUCTURE_RATE
+    assert plasticity(f"lex:number {stem('of')}|count") == STRUCTURE_RATE
+    assert plasticity("lex:qtype:how_many|count") == STRUCTURE_RATE
+    assert plasticity(STRUCTURE) == STRUCTURE_RATE
+    assert plasticity("answer:number") == STRUCTURE_RATE
+
+
+def test_settle_steps_until_the_confirmed_reading_leads_by_the_margin():
+    # target {WORD, STRUCTURE}, rival {other}: each step moves WORD by 0.1, STRUCTURE by
+    # +0.02 and "other" by −0.02, so the gap grows 0.14 a step from 0: 15 steps reach 2.1.
+    ex = _example([{WORD: 1.0, STRUCTURE: 1.0}, {"other": 1.0}], [True, False])
+    model = settle(Model(), [ex], rate=0.1)
+    assert model.weight(WORD) == pytest.approx(1.5)
+    assert model.weight(STRUCTURE) == pytest.approx(0.3)
+    assert model.weight("other") == pytest.approx(-0.3)
+    gap = model.weight(WORD) + model.weight(STRUCTURE) - model.weight("other")
+    assert TEACH_MARGIN <= gap < TEACH_MARGIN + 0.14
+
+
+def test_settle_leaves_an_example_that_already_leads_by_the_margin_alone():
+    ex = _example([{WORD: 1.0}, {"other": 1.0}], [True, False])
+    model = Model({WORD: 3.0, "other": 0.0})
+    settled = settle(model, [ex])
+    assert settled.as_dict() == model.as_dict()
+
+
+def test_settle_shares_the_step_between_consistent_readings_tied_at_the_top():
+    # two readings give the confirmed answer with equal scores: settling must not pick one
+    ex = _example([{WORD: 1.0}, {"lexcol:takings|fee": 1.0}, {"other": 1.0}],
+                  [True, True, False])
+    model = settle(Model(), [ex], rate=0.1)
+    assert model.weight(WORD) == pytest.approx(model.weight("lexcol:takings|fee"))
+    assert model.weight(WORD) > 0 > model.weight("other")
+
+
+def test_settle_does_not_change_the_model_it_is_given():
+    ex = _example([{WORD: 1.0}, {"other": 1.0}], [True, False])
+    model = Model({WORD: 0.0})
+    settle(model, [ex])
+    assert model.weight(WORD) == 0.0

@@ -102,6 +102,30 @@ def test_rebuild_from_the_log_gives_the_saved_models_answers(tables, taught):
             == tabq.open(second, model=folder.path).ask("how many returns were there").answer)
 
 
+def _count(path, **where):
+    """Rows of a CSV whose columns hold these values, counted by the csv module."""
+    with open(path, newline="") as f:
+        return sum(all(row[k] == v for k, v in where.items()) for row in csv.DictReader(f))
+
+
+def test_one_confirmation_carries_to_related_questions(tables, tmp_path):
+    # one confirmed answer teaches the word; questions that add a plant or a size to it are
+    # read right on both tables, though none of them was ever confirmed
+    first, second = tables
+    folder = ModelFolder(tmp_path / "model")
+    teach(folder, [Job("1", "how many returns were there", str(first),
+                       [_count(first, status="refunded")])], workers=1)
+    for path in (first, second):
+        opened = tabq.open(path, model=folder.path)
+        for question, where in [("how many returns of Fern", {"plant": "Fern"}),
+                                ("how many returns for Orchid", {"plant": "Orchid"}),
+                                ("how many returns of large pots", {"pot_size": "large"})]:
+            result = opened.ask(question)
+            assert result.answer == [_count(path, status="refunded", **where)], (
+                path.name, question, result.sql)
+            assert "refunded" in result.sql
+
+
 # ── example files ─────────────────────────────────────────────────────────────────────────────
 def test_read_examples_reads_a_good_file(tmp_path, tables):
     first, _ = tables

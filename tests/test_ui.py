@@ -117,6 +117,32 @@ def test_none_of_these_searches_for_the_typed_answer_and_offers_the_readings(dem
     asyncio.run(run())
 
 
+def test_a_word_taught_by_one_pick_reads_a_related_question_right(demo_csv, tmp_path):
+    # issue 4's "teach a new word in under a minute": ask, pick the meant reading once, ask a
+    # related question, and the learned reading comes first
+    folder = tmp_path / "m"
+    jobs = pd.read_csv(demo_csv, keep_default_na=False)
+    cancelled_at_wharf = int(((jobs.status == "Cancelled") & (jobs.site == "Wharf Shed")).sum())
+
+    async def run():
+        app = TabqApp(demo_csv, folder)
+        async with app.run_test(size=SIZE) as pilot:
+            await _ask(app, pilot, NO_SHOWS)
+            await pilot.press("n")
+            await pilot.press(*"10", "enter")
+            await _until(pilot, lambda: isinstance(app.screen, CompareScreen))
+            readings = app.screen.comparison.readings
+            await pilot.press(str(next(i for i, r in enumerate(readings)
+                                       if "Cancelled" in r.sql) + 1))
+            await _until(pilot, lambda: len(_log(folder)) == 1)
+            await _until(pilot, lambda: app.result.question == NO_SHOWS
+                         and app.result.answer == [10], 90)
+            await _ask(app, pilot, "how many no-shows at Wharf Shed")
+            assert app.result.answer == [cancelled_at_wharf], app.result.sql   # pandas count
+            assert "Cancelled" in app.result.sql and "Wharf Shed" in app.result.sql
+    asyncio.run(run())
+
+
 def test_none_of_these_with_an_answer_no_reading_gives_says_so(demo_csv, tmp_path):
     folder = tmp_path / "m"
 

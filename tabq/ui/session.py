@@ -22,7 +22,7 @@ from .. import api
 from .. import logic as L
 from ..answers import Denotation, matches
 from ..execute import run_on_rows, run_sql
-from ..learn import TRAIN_EXECUTE, Example, candidates
+from ..learn import TEACH_PAIR_BEAM, TRAIN_EXECUTE, Example, candidates
 from ..load import ROW, TABLE
 from ..model import Model
 from ..sql import condition
@@ -139,9 +139,9 @@ class Session:
         with self.teaching:
             with self.lock:
                 # searched on the table already open (a worker would load it again)
-                self.cache[example_key(job)] = candidates(
+                self.cache[example_key(job, TEACH_PAIR_BEAM)] = candidates(
                     self.open, question, job.answer, TRAIN_EXECUTE, job.extra.get("rows"),
-                    job.extra.get("rows_answer"), job.extra.get("meant"))
+                    job.extra.get("rows_answer"), job.extra.get("meant"), TEACH_PAIR_BEAM)
             before = self.folder.load()
             report = teach(self.folder, [job], workers=1, cache=self.cache)
             model = self.folder.load()
@@ -182,9 +182,9 @@ class Session:
         """Search the log's recent confirmations ahead of the first teaching (in a worker)."""
         replay = [job_of_record(r) for r in live(self.folder.read_log())[-REPLAY:]]
         with self.teaching:
-            todo = [j for j in replay if example_key(j) not in self.cache]
-            if todo:
-                learn_from(self.folder.load(), todo, workers=1, cache=self.cache)
+            todo = [j for j in replay if example_key(j, TEACH_PAIR_BEAM) not in self.cache]
+            if todo:   # searched as teaching will (fresh=[]: settles nothing)
+                learn_from(self.folder.load(), todo, workers=1, cache=self.cache, fresh=[])
         return len(todo)
 
 
