@@ -332,6 +332,15 @@ def test_the_messages_name_the_problem(shop, tmp_path):
             lexicon.read(path)
 
 
+def test_a_file_cut_inside_a_string_is_called_cut_short(shop, tmp_path):
+    # json reports an open string at its start, not at the end of the file
+    text = json.dumps(_good(shop, tmp_path))
+    path = tmp_path / "cut.json"
+    path.write_text(text[: text.index('"format"') + 4])     # ends in the middle of a key
+    with pytest.raises(LexiconError, match="Unterminated string.*cut short"):
+        lexicon.read(path)
+
+
 def test_a_huge_file_is_refused_before_it_is_read(tmp_path):
     path = tmp_path / "huge.json"
     with open(path, "wb") as f:
