@@ -3,6 +3,9 @@
 Candidates that share a scan are run as one query (`run_many`):
 - aggregates over the same rows (and yes/no questions about them): one SELECT per distinct WHERE
   carrying all their aggregates, at most FUSE_WIDTH a query (long lists of aggregates get slow);
+- aggregates each alone on its rows: one SELECT over the whole table, each aggregate of
+  CASE WHEN its condition (conditions that join the table to itself are kept apart: in a CASE
+  they cost more than a query of their own);
 - "which group has the most/the top n groups by" over the same key and rows: one GROUP BY with
   every measure, the best groups picked in Python exactly as the form's SQL picks them.
 Every answer is cached under the form's own SQL for the life of the open table, and every form
@@ -22,7 +25,7 @@ from . import logic as L
 from .answers import Denotation, clean
 from .errors import QueryError
 from .load import ROW, Table
-from .sql import aggregate, column, compile_form, on_rows, render, select, where
+from .sql import aggregate, any_row, column, on_rows, only_when, render, select, where
 
 QUERY_SECONDS = 5.0
 MAX_ROWS = 1000          # rows of one answer kept; more is not an answer anyone reads
@@ -52,13 +55,18 @@ def run_many(table: Table, forms: list[L.Answer], seconds: float = QUERY_SECONDS
     groups: dict[tuple, list[L.Answer]] = defaultdict(list)
     single = []
     for form in todo:
-        if _scalar(table, form) is not None:
-            scalars[render_condition(_rows_of(form))].append(form)
+        if isinstance(form, (L.Aggregate, L.YesNo)):
+            scalars[render_condition(form.rows)].append(form)
         elif isinstance(form, (L.GroupBest, L.GroupTop)) and _groupable(table, form.key):
             groups[(form.key, render_condition(form.rows))].append(form)
         else:
             single.append(form)
-    jobs = [(_run_scalars, batch) for batch in _batches(scalars.values())]
+    shared = [forms for forms in scalars.values() if len(forms) > 1]
+    alone = [forms[0] for forms in scalars.values() if len(forms) == 1]
+    jobs = [(_run_scalars, batch) for batch in _batches(shared)]
+    jobs += [(_run_conditional, batch) for batch in _batches(
+        [[f for f in alone if _shares_scan(f.rows)]])]
+    jobs += [(_run_scalars, [f]) for f in alone if not _shares_scan(f.rows)]
     jobs += [(_run_groups, batch) for batch in groups.values()]
     jobs += [(_run_single, [form]) for form in single]
     order = {form: i for i, form in enumerate(todo)}
@@ -92,18 +100,31 @@ def _run_single(table: Table, forms: list[L.Answer], seconds: float) -> None:
         run(table, form, seconds)
 
 
-def _run_scalars(table: Table, forms: list[L.Answer], seconds: float) -> None:
+def _run_scalars(table: Table, forms: list[L.Aggregate | L.YesNo], seconds: float) -> None:
     """Forms of one value over the same rows: one SELECT with all their expressions."""
-    cache = _answers(table)
-    if len(forms) == 1:
-        return _run_single(table, forms, seconds)
     projections = [_scalar(table, f) for f in forms]
-    query = select(*projections, where=where(_rows_of(forms[0])))
+    query = select(*projections, where=where(forms[0].rows))
+    _store_values(table, forms, query, seconds)
+
+
+def _run_conditional(table: Table, forms: list[L.Aggregate | L.YesNo], seconds: float) -> None:
+    """Forms of one value over different rows: one SELECT over all rows, each aggregate taking
+    only the rows of its own condition."""
+    projections = [_scalar(table, f, when=where(f.rows)) for f in forms]
+    _store_values(table, forms, select(*projections), seconds)
+
+
+def _store_values(table: Table, forms: list[L.Aggregate | L.YesNo], query: exp.Select,
+                  seconds: float) -> None:
     rows = _fetch(table, query.sql(dialect="duckdb"), seconds)
-    if isinstance(rows, Denotation):   # one bad expression spoils the lot: run them alone
-        return _run_single(table, forms, seconds)
-    for form, value in zip(forms, rows[0], strict=True):
-        cache[render(form)] = Denotation((clean(value),))
+    if isinstance(rows, Denotation) and len(forms) > 1:
+        for form in forms:   # one bad expression spoils the lot: run them alone
+            _run_scalars(table, [form], seconds)
+        return
+    cache = _answers(table)
+    for i, form in enumerate(forms):
+        cache[render(form)] = rows if isinstance(rows, Denotation) else Denotation(
+            (clean(rows[0][i]),))
 
 
 def _run_groups(table: Table, forms: list[L.GroupBest | L.GroupTop], seconds: float) -> None:
@@ -147,16 +168,24 @@ def _top_groups(groups: list[tuple], direction: str, n: int) -> list:
 
 
 # ── which forms fuse ──────────────────────────────────────────────────────────────────────────
-def _scalar(table: Table, form: L.Answer) -> exp.Expression | None:
-    """The one projection of a form that is `SELECT <aggregate> FROM t [WHERE …]`, else None.
+def _scalar(table: Table, form: L.Aggregate | L.YesNo,
+            when: exp.Expression | None = None) -> exp.Expression:
+    """The one projection of a form that is `SELECT <aggregate> FROM t [WHERE …]`; with `when`,
+    of the rows where it holds only.
 
     COUNT(DISTINCT c) of a column whose values are all different (the profile says so) is
     COUNT(c) on any rows: the same number without a hash set of a million ids."""
-    if not isinstance(form, (L.Aggregate, L.YesNo)):
-        return None
-    if isinstance(form, L.Aggregate) and form.fn == "count_distinct" and _unique(table, form.col):
-        return exp.Count(this=column(form.col))
-    return compile_form(form).expressions[0]
+    if isinstance(form, L.YesNo):
+        return any_row(when)
+    if form.fn == "count_distinct" and _unique(table, form.col):
+        present = column(form.col)
+        return exp.Count(this=present if when is None else only_when(when, present))
+    return aggregate(form.fn, form.col, when)
+
+
+def _shares_scan(rows: L.Rows) -> bool:
+    """Whether a condition is cheap inside a CASE: not one that joins the table to itself."""
+    return not any(isinstance(r, L.Neighbour) for r in L.walk(rows))
 
 
 def _unique(table: Table, name: str) -> bool:
@@ -165,10 +194,6 @@ def _unique(table: Table, name: str) -> bool:
     except KeyError:
         return False
     return col.distinct > 0 and col.distinct + col.nulls == table.row_count
-
-
-def _rows_of(form: L.Aggregate | L.YesNo) -> L.Rows:
-    return form.rows
 
 
 def render_condition(rows: L.Rows) -> str:

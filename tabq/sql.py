@@ -127,12 +127,30 @@ _CONDITIONS = {
 
 
 # ── answers → queries ─────────────────────────────────────────────────────────────────────────
-def aggregate(fn: str, col: str | None) -> exp.Expression:
+def aggregate(fn: str, col: str | None, when: exp.Expression | None = None) -> exp.Expression:
+    """An aggregate of a column (or of rows, for count); with `when`, of the rows where it holds
+    only (see `only_when`), so aggregates of different rows can share one scan."""
     if fn == "count":
-        return exp.Count(this=exp.Star())
+        one = exp.Literal.number(1)
+        return exp.Count(this=exp.Star() if when is None else only_when(when, one))
+    arg = column(col) if when is None else only_when(when, column(col))
     if fn == "count_distinct":
-        return exp.Count(this=exp.Distinct(expressions=[column(col)]))
-    return AGGREGATES[fn](this=column(col))
+        return exp.Count(this=exp.Distinct(expressions=[arg]))
+    return AGGREGATES[fn](this=arg)
+
+
+def only_when(when: exp.Expression, value: exp.Expression) -> exp.Case:
+    """CASE WHEN when THEN value END: NULL where the condition is false or unknown, and every
+    aggregate skips NULLs, so agg(only_when(c, x)) over all rows is agg(x) WHERE c."""
+    return exp.Case(ifs=[exp.If(this=when, true=value)])
+
+
+def any_row(when: exp.Expression | None = None) -> exp.Case:
+    """'yes' when there is a row (where `when` holds), else 'no'."""
+    present = aggregate("count", None, when)
+    return exp.Case(ifs=[exp.If(this=exp.GT(this=present, expression=exp.Literal.number(0)),
+                                true=exp.Literal.string("yes"))],
+                    default=exp.Literal.string("no"))
 
 
 def _not_null(col: str, rows: L.Rows) -> exp.Expression:
@@ -209,10 +227,7 @@ def _top_n(form: L.TopN) -> exp.Select:
 
 
 def _yes_no(form: L.YesNo) -> exp.Select:
-    any_row = exp.GT(this=exp.Count(this=exp.Star()), expression=exp.Literal.number(0))
-    case = exp.Case(ifs=[exp.If(this=any_row, true=exp.Literal.string("yes"))],
-                    default=exp.Literal.string("no"))
-    return _select(case, where=_where(form.rows))
+    return _select(any_row(), where=_where(form.rows))
 
 
 def _per_group(form: L.GroupTable) -> exp.Select:

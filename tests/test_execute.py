@@ -149,3 +149,37 @@ def test_fused_aggregates_and_groups_agree_with_pandas(penguins_csv):
     ]
     for form, den, want in zip(forms, got, expected, strict=True):
         assert matches(list(den.values), want), (render(form), den.values, want)
+
+
+def test_aggregates_over_different_rows_share_one_scan(penguins_csv, monkeypatch):
+    """Each aggregate alone on its rows, all in one query (CASE WHEN its condition); pandas
+    computes the same answers from the palmerpenguins CSV, outside tabq."""
+    frame = pd.read_csv(penguins_csv)
+    table = tabq.open(penguins_csv).table
+    queries = []
+    fetch = execute._fetch
+    monkeypatch.setattr(execute, "_fetch", lambda t, sql, *a, **k: queries.append(sql) or fetch(
+        t, sql, *a, **k))
+    heavy = L.Cmp("body_mass_g", "gt", 6000)
+    forms = [
+        L.Aggregate("count", None, L.Eq("island", "Dream")),
+        L.Aggregate("avg", "body_mass_g", L.Eq("species", "Chinstrap")),
+        L.Aggregate("max", "bill_length_mm",
+                    L.And(L.Eq("sex", "female"), L.Eq("island", "Biscoe"))),
+        L.Aggregate("count_distinct", "island", L.Not(L.Eq("species", "Adelie"))),
+        L.Aggregate("sum", "flipper_length_mm", L.All()),
+        L.YesNo(heavy), L.YesNo(L.Cmp("body_mass_g", "gt", 9000)),
+    ]
+    got = execute.run_many(table, forms)
+    assert len(queries) == 1 and "CASE WHEN" in queries[0]
+    f = frame
+    expected = [
+        [int((f.island == "Dream").sum())],
+        [f[f.species == "Chinstrap"].body_mass_g.mean()],
+        [f[(f.sex == "female") & (f.island == "Biscoe")].bill_length_mm.max()],
+        [f[f.species != "Adelie"].island.nunique()],
+        [f.flipper_length_mm.sum()],
+        ["yes" if (f.body_mass_g > 6000).any() else "no"], ["no"],
+    ]
+    for form, den, want in zip(forms, got, expected, strict=True):
+        assert matches(list(den.values), want), (render(form), den.values, want)
