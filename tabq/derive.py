@@ -14,12 +14,14 @@ import itertools
 from collections.abc import Callable
 from dataclasses import dataclass
 from functools import lru_cache
+from operator import itemgetter
 
 from lark import Lark
 
 from . import logic as L
 from .analyse import Analysis, Atom
-from .features import NODE_FEATURES, ROOT_FEATURES, Step, fragments, lexical, lexical_column
+from .features import CHILD_FEATURES, NODE_FEATURES, ROOT_FEATURES, Step, fragments, lexical
+from .features import lexical_column
 from .features import lexical_value
 from .model import Model
 
@@ -158,12 +160,39 @@ def _splits(total: int, parts: int):
             yield (first, *rest)
 
 
+@dataclass(frozen=True)
+class _Filling:
+    """What a rule applied to some atoms contributes whatever its sub-forms: the step features
+    that see only the rule and atoms, the lexical pairs, their score, the atoms' columns."""
+
+    local: tuple[dict, ...]      # the step features first, then the lexical pairs
+    plain_score: float
+    shared_score: float
+    columns: frozenset[str]
+
+
 class _Scorer:
     """Scores of features, cached for one question (the same lexical pairs recur everywhere)."""
 
     def __init__(self, analysis: Analysis, model: Model):
         self.analysis, self.model = analysis, model
         self.cache: dict[int, float] = {}
+        self.fillings: dict[tuple, _Filling] = {}
+
+    def filling(self, rule: Rule, atoms: tuple[Atom, ...]) -> _Filling:
+        """The rule's contribution on these atoms, computed once per question (a filling is
+        tried with many choices of sub-forms)."""
+        key = (rule.alias, *map(id, atoms))   # the analysis's own atoms: ids hash faster
+        if key not in self.fillings:
+            analysis, step = self.analysis, Step(rule.alias, atoms, ())
+            plain = _sum_features(analysis, step, (
+                fn for fn in NODE_FEATURES if fn not in CHILD_FEATURES))
+            shared = (*(lexical(analysis, f) for f in fragments(step)),
+                      *(p for a in atoms for p in _atom_parts(analysis, a)))
+            columns = frozenset(c for a in atoms for c in _atom_columns(a))
+            self.fillings[key] = _Filling((plain, *shared), self.model.score(plain),
+                                          sum(self.score(p) for p in shared), columns)
+        return self.fillings[key]
 
     def score(self, feats: dict) -> float:
         key = id(feats)
@@ -240,7 +269,10 @@ def _combos(rule: Rule, analysis: Analysis, scores: dict[Atom, float], limit: in
         else:
             found.append((sum(scores[a] for a in atoms), atoms, frozenset(spans)))
     found.sort(key=lambda c: -c[0])
-    return found[:limit]
+    fits = FITS.get(rule.alias)
+    if fits is None:
+        return found[:limit]
+    return [c for c in found[:limit] if fits(*(a.value for a in c[1]))]
 
 
 def _apply(rule: Rule, combos, cells: list[list[Item]], scorer: _Scorer, size: int):
@@ -256,12 +288,12 @@ def _apply(rule: Rule, combos, cells: list[list[Item]], scorer: _Scorer, size: i
             used |= kid.used
         else:
             base = sum(k.score for k in kids)
-            plans.extend((base + est, kids, atoms, used | spans)
+            plans.extend((base + est, kids, atoms, spans, used)
                          for est, atoms, spans in combos if not spans & used)
-    plans.sort(key=lambda p: -p[0])
+    plans.sort(key=itemgetter(0), reverse=True)   # stable: equal estimates keep their order
     built = 0
-    for _, kids, atoms, used in plans:
-        item = _build(rule, builder, analysis, scorer, atoms, kids, size, used)
+    for _, kids, atoms, spans, used in plans:
+        item = _build(rule, builder, analysis, scorer, atoms, kids, size, used | spans)
         if item is not None:
             yield item
             built += 1
@@ -274,17 +306,21 @@ def _build(rule, builder, analysis, scorer, atoms, kids, size, used) -> Item | N
     if form is None:
         return None
     step = Step(rule.alias, atoms, tuple(k.columns for k in kids), tuple(k.form for k in kids))
-    plain: dict = {}
-    for fn in NODE_FEATURES:
+    filling = scorer.filling(rule, atoms)
+    from_kids = _sum_features(analysis, step, CHILD_FEATURES)
+    local = (from_kids, *filling.local) if from_kids else filling.local
+    score = sum(k.score for k in kids) + filling.shared_score + scorer.model.score(
+        from_kids, start=filling.plain_score)
+    columns = filling.columns.union(*(k.columns for k in kids))
+    return Item(form, rule.category, size, score, step, local, kids, used, columns)
+
+
+def _sum_features(analysis: Analysis, step: Step, functions) -> dict[str, float]:
+    total: dict = {}
+    for fn in functions:
         for name, value in fn(analysis, step).items():
-            plain[name] = plain.get(name, 0.0) + value
-    shared = (*(lexical(analysis, f) for f in fragments(step)),
-              *(p for a in atoms for p in _atom_parts(analysis, a)))
-    score = sum(k.score for k in kids) + sum(scorer.score(p) for p in shared) + (
-        scorer.model.score(plain))
-    columns = frozenset().union(*(k.columns for k in kids)) | {
-        c for a in atoms for c in _atom_columns(a)}
-    return Item(form, rule.category, size, score, step, (plain, *shared), kids, used, columns)
+            total[name] = total.get(name, 0.0) + value
+    return total
 
 
 def _atom_columns(atom: Atom) -> tuple[str, ...]:
@@ -296,6 +332,8 @@ def _atom_columns(atom: Atom) -> tuple[str, ...]:
 
 
 def _args(rule: Rule, atoms: tuple[Atom, ...], kids: tuple[Item, ...]) -> list:
+    if not kids:
+        return [atom.value for atom in atoms]
     args, a, k = [], iter(atoms), iter(kids)
     for symbol in rule.symbols:
         args.append(next(a).value if symbol.isupper() else next(k).form)
@@ -567,6 +605,17 @@ def per_group(a, key, fn, col, rows, _):
         return None
     return L.GroupTable(key, fn, col, rows)
 
+
+# Slot fillings a rule's builder refuses whatever the sub-forms, dropped before any is tried.
+# They are dropped after the cut to the best fillings, so the chart is the one trying them would
+# give; most fillings of these rules are refused, and trying each with every sub-form costs.
+FITS: dict[str, Callable[..., bool]] = {
+    "spread": lambda fn1, fn2, col: (fn1, fn2) == ("max", "min"),
+    "which_of_count": lambda first, second, *_: _two(first, second) is not None,
+    "which_of_value": lambda first, second, col, _: (
+        _two(first, second) is not None and first[0] != col),
+    "which_of_position": lambda first, second, _: _two(first, second) is not None,
+}
 
 # What sub-forms a rule can take at all: filtering before combining keeps the chart small.
 ACCEPTS: dict[str, Callable[[L.Form], bool]] = {

@@ -2,7 +2,9 @@
 
 Three tables of pure functions:
 - NODE_FEATURES see one composition step (a grammar rule applied to atoms and sub-forms);
-  a form's features are the sum over its steps, so the beam can score partial forms.
+  a form's features are the sum over its steps, so the beam can score partial forms. Those
+  that read the sub-forms are also in CHILD_FEATURES; the others see only the rule and its
+  atoms, so the chart computes them once per filling of a rule's slots.
 - ROOT_FEATURES see a whole candidate (what it leaves unexplained in the question).
 - ANSWER_FEATURES see the executed answer (its size and type against the question word).
 Lexical pairs — a question word or phrase with a fragment of the form — are the lexicon that
@@ -20,6 +22,7 @@ from .logic import Extreme, Neighbour, Position, walk
 
 Features = dict[str, float]
 NODE_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
+CHILD_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
 ROOT_FEATURES: list[Callable[[Analysis, frozenset[int], frozenset[str]], Features]] = []
 ANSWER_FEATURES: list[Callable[[Analysis, Denotation], Features]] = []
 
@@ -51,6 +54,12 @@ class Step:
 def node_feature(fn):
     NODE_FEATURES.append(fn)
     return fn
+
+
+def child_feature(fn):
+    """A step feature that reads the step's sub-forms (child_columns, child_forms)."""
+    CHILD_FEATURES.append(fn)
+    return node_feature(fn)
 
 
 def root_feature(fn):
@@ -200,7 +209,7 @@ SUPERLATIVES = ("extreme", "group_best", "group_best_count", "top_n", "which_of_
                 "group_top_count", "spread")
 
 
-@node_feature
+@child_feature
 def nesting(analysis: Analysis, step: Step) -> Features:
     """Two superlatives in one form, or conditions stacked deep, are rarely what was asked."""
     feats: Features = {}
@@ -214,15 +223,20 @@ def nesting(analysis: Analysis, step: Step) -> Features:
     return feats
 
 
-@node_feature
+@child_feature
 def repeated_columns(analysis: Analysis, step: Step) -> Features:
+    """How often a column comes back: in two sub-forms, or in a sub-form and this step's atoms."""
+    named = [a.value for a in step.atoms if a.slot.endswith("COL")]
+    if len(step.child_columns) + len(named) < 2:
+        return {}
     seen: set[str] = set()
     repeats = 0
-    groups = list(step.child_columns) + [
-        frozenset([a.value]) for a in step.atoms if a.slot.endswith("COL")]
-    for cols in groups:
+    for cols in step.child_columns:
         repeats += len(seen & cols)
         seen |= cols
+    for col in named:
+        repeats += col in seen
+        seen.add(col)
     return {"col:repeated": float(repeats)} if repeats else {}
 
 

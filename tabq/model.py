@@ -35,9 +35,12 @@ class Model:
         i = self.index.get(name)
         return 0.0 if i is None else float(self.w[i])
 
-    def score(self, features: Mapping[str, float]) -> float:
+    def score(self, features: Mapping[str, float], start: float = 0.0) -> float:
+        """w·φ, added to `start`: a score computed in parts, each continuing the sum of the one
+        before, comes out bit for bit as the score of the merged features (the beam breaks ties
+        by score, so a last-bit difference would change which forms it keeps)."""
         weights = self._weights_by_name()
-        total = 0.0
+        total = start
         for name, value in features.items():
             w = weights.get(name)
             if w is not None:

@@ -6,6 +6,7 @@ import sqlglot
 import tabq
 from tabq import logic as L
 from tabq.analyse import analyse
+from tabq import derive as derive_module
 from tabq.derive import ANSWER_BEAM, MAX_SIZE, derive, rules
 from tabq.features import NODE_FEATURES, Step, fragments
 from tabq.model import Model
@@ -47,8 +48,27 @@ def test_every_rule_has_a_builder_and_the_beam_bounds_the_candidates(demo):
 
 def test_candidate_scores_are_the_model_score_of_their_features(demo):
     model = Model.prior()
-    for item in derive(analyse("average price of a full service", demo.table), model)[:20]:
-        assert item.score == pytest.approx(model.score(item.features()))
+    for question in DERIVE_QUESTIONS:
+        for item in derive(analyse(question, demo.table), model)[:60]:
+            assert item.score == pytest.approx(model.score(item.features()))
+
+
+DERIVE_QUESTIONS = ["which mechanic has done the most jobs", "difference between the most and "
+                    "least expensive job", "were there more jobs at the wharf shed or the depot",
+                    "how many jobs were not for members in 2025", "average price of a full service"]
+
+
+def test_dropping_the_fillings_builders_refuse_changes_no_candidate(demo, monkeypatch):
+    """derive.FITS only saves tries: with it emptied the chart tries those fillings too."""
+    model = Model.prior()
+
+    def chart():
+        return [[(i.form, i.score, i.features()) for i in derive(analyse(q, demo.table), model)]
+                for q in DERIVE_QUESTIONS]
+
+    with_fits = chart()
+    monkeypatch.setattr(derive_module, "FITS", {})
+    assert chart() == with_fits
 
 
 def test_every_candidate_sql_reparses(demo):
