@@ -256,23 +256,31 @@ def _combos(rule: Rule, analysis: Analysis, scores: dict[Atom, float], limit: in
     for symbol in rule.symbols:
         if symbol.isupper():
             atoms = _ranked(analysis.atoms.get(symbol, []), scores)
-            lists.append(atoms[:SLOT_LIMIT * 2 if symbol == "ENTITY" else SLOT_LIMIT])
+            atoms = atoms[:SLOT_LIMIT * 2 if symbol == "ENTITY" else SLOT_LIMIT]
+            lists.append([(atom, scores[atom], _token_mask(atom)) for atom in atoms])
     found = []
-    for atoms in itertools.product(*lists):
-        spans: set[int] = set()
-        for atom in atoms:
-            if atom.span:
-                tokens = set(range(*atom.span))
-                if tokens & spans:
-                    break
-                spans |= tokens
+    for picks in itertools.product(*lists):   # thousands for a rule of two values and more
+        taken = 0
+        for _, _, mask in picks:
+            if mask & taken:
+                break
+            taken |= mask
         else:
-            found.append((sum(scores[a] for a in atoms), atoms, frozenset(spans)))
+            found.append((sum(score for _, score, _ in picks), picks, taken))
     found.sort(key=lambda c: -c[0])
+    best = [(score, tuple(atom for atom, _, _ in picks), _tokens(taken))
+            for score, picks, taken in found[:limit]]
     fits = FITS.get(rule.alias)
-    if fits is None:
-        return found[:limit]
-    return [c for c in found[:limit] if fits(*(a.value for a in c[1]))]
+    return best if fits is None else [c for c in best if fits(*(a.value for a in c[1]))]
+
+
+def _token_mask(atom: Atom) -> int:
+    """The question tokens an atom stands on, as bits."""
+    return sum(1 << i for i in range(*atom.span)) if atom.span else 0
+
+
+def _tokens(mask: int) -> frozenset[int]:
+    return frozenset(i for i in range(mask.bit_length()) if mask >> i & 1)
 
 
 def _apply(rule: Rule, combos, cells: list[list[Item]], scorer: _Scorer, size: int):

@@ -116,7 +116,7 @@ def _run_conditional(table: Table, forms: list[L.Aggregate | L.YesNo], seconds: 
 
 def _store_values(table: Table, forms: list[L.Aggregate | L.YesNo], query: exp.Select,
                   seconds: float) -> None:
-    rows = _fetch(table, query.sql(dialect="duckdb"), seconds)
+    rows = _fetch(table, query.sql(dialect="duckdb", copy=False), seconds)
     if isinstance(rows, Denotation) and len(forms) > 1:
         for form in forms:   # one bad expression spoils the lot: run them alone
             _run_scalars(table, [form], seconds)
@@ -138,7 +138,8 @@ def _run_groups(table: Table, forms: list[L.GroupBest | L.GroupTop], seconds: fl
     query = select(column(first.key), exp.Min(this=column(ROW)),
                    *(aggregate(fn, col) for fn, col in measures),
                    where=_not_null_where(first.key, first.rows)).group_by(column(first.key))
-    rows = _fetch(table, query.sql(dialect="duckdb"), seconds, keep=GROUP_FUSE_LIMIT + 1)
+    rows = _fetch(table, query.sql(dialect="duckdb", copy=False), seconds,
+                  keep=GROUP_FUSE_LIMIT + 1)
     if isinstance(rows, Denotation) or len(rows) > GROUP_FUSE_LIMIT:
         return _run_single(table, forms, seconds)
     for form in forms:
@@ -198,7 +199,7 @@ def _unique(table: Table, name: str) -> bool:
 
 def render_condition(rows: L.Rows) -> str:
     cond = where(rows)
-    return "" if cond is None else cond.sql(dialect="duckdb")
+    return "" if cond is None else cond.sql(dialect="duckdb", copy=False)
 
 
 def _not_null_where(key: str, rows: L.Rows) -> exp.Expression:

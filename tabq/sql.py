@@ -251,7 +251,7 @@ def compile_form(form: L.Answer) -> exp.Expression:
 @lru_cache(maxsize=20000)
 def render(form: L.Answer, dialect: str = "duckdb") -> str:
     """SQL text of a form, rendered once per form and dialect."""
-    return compile_form(form).sql(dialect=dialect)
+    return compile_form(form).sql(dialect=dialect, copy=False)   # a fresh tree: no copy needed
 
 
 def on_rows(form: L.Answer, rows: Iterable[int], dialect: str = "duckdb") -> str:
@@ -266,7 +266,7 @@ def on_rows(form: L.Answer, rows: Iterable[int], dialect: str = "duckdb") -> str
                 this=exp.to_identifier(TABLE, quoted=True)))
         return node
 
-    return compile_form(form).transform(restrict, copy=True).sql(dialect=dialect)
+    return compile_form(form).transform(restrict, copy=False).sql(dialect=dialect, copy=False)
 
 
 def has_value(col: str, value: L.Literal) -> str:
