@@ -54,7 +54,9 @@ _TOKEN = re.compile(
     r"|\d+(?:st|nd|rd|th)\b"             # 4th
     r"|[$€£]?(?:\d{1,3}(?:,\d{3})+|\d+)(?:\.\d+)?%?"   # 7,169  3.5  $40  40%
     r"|[^\W\d_]+(?:['’][^\W\d_]+)?"      # words, with an apostrophe inside
-    r"|'[^']*'|\"[^\"]*\"|“[^”]*”|‘[^’]*’"  # quoted text
+    r"|(?<!\w)'(?:[^']|'(?=\w))*'(?!\w)"  # quoted text; an apostrophe before a letter stays
+    r"|‘(?:[^’]|’(?=\w))*’(?!\w)"        # inside it: 'O'Brien's yard'
+    r"|\"[^\"]*\"|“[^”]*”"
     r"|\S",
     re.UNICODE,
 )
@@ -131,6 +133,9 @@ def _expand(raw: list[str]) -> list[str]:
     """Split contractions so that "aren't" says "not" and "what's" says "what is"."""
     out = []
     for text in raw:
+        if text[0] in _QUOTES and len(text) > 1:   # quoted text is kept as written
+            out.append(text)
+            continue
         text = text.replace("’", "'")
         if text in _CONTRACTIONS:
             out.extend(_CONTRACTIONS[text])
@@ -204,7 +209,9 @@ def _number_words(tokens: list[Token], i: int) -> tuple[int, int]:
             j += 1
             continue
         value = UNITS[word]
-        if value in (100, 1000, 1_000_000):
+        if word == "dozen":   # "two dozen" is 24, "a dozen" (no number before it) 12
+            current = max(current, 1) * value
+        elif value in (100, 1000, 1_000_000):
             current = max(current, 1) * value
             if value > 100:
                 total, current = total + current, 0
@@ -266,11 +273,12 @@ def _date_at(tokens: list[Token], i: int) -> DateMention | None:
         if text in _AMBIGUOUS_MONTHS and not (day or year):
             return None
         return DateMention(year, month, day, i, j)
-    if _day(text) and words[1] in MONTHS:  # "3 march", "3rd of march 2025"
-        j, year = i + 2, None
+    gap = 1 if words[1] == "of" else 0
+    if _day(text) and words[1 + gap] in MONTHS:  # "3 march", "3rd of march 2025"
+        j, year = i + 2 + gap, None
         if j < len(tokens) and _year(tokens[j].text):
             year, j = _year(tokens[j].text), j + 1
-        return DateMention(year, MONTHS[words[1]], _day(text), i, j)
+        return DateMention(year, MONTHS[words[1 + gap]], _day(text), i, j)
     if _year(text):
         return DateMention(_year(text), None, None, i, i + 1)
     return None

@@ -84,6 +84,11 @@ def test_a_dozen_is_twelve():
     assert numbers("a dozen crates") == [12]
 
 
+def test_dozens_multiply():
+    assert numbers("more than two dozen crates") == [24]
+    assert numbers("three dozen and five") == [36, 5]
+
+
 def test_number_word_span_covers_all_its_words():
     (mention,) = read_question("over twenty five boats").numbers
     assert (mention.start, mention.end, mention.ordinal) == (1, 3, False)
@@ -166,6 +171,16 @@ def test_day_then_month():
     assert (date.year, date.month, date.day) == (None, 3, 3)
 
 
+def test_day_of_month():
+    date = only_date("jobs after the 3rd of march 2025")
+    assert date.iso() == "2025-03-03" and (date.start, date.end) == (3, 7)
+    assert (only_date("on 14 of may").month, only_date("on 14 of may").day) == (5, 14)
+
+
+def test_a_day_number_before_of_without_a_month_is_no_date():
+    assert read_question("the 3rd of the boats").dates == ()
+
+
 def test_slash_date_reads_day_first():
     assert only_date("on 04/05/2025").iso() == "2025-05-04"
 
@@ -205,6 +220,11 @@ def test_curly_quoted_text():
 
 def test_apostrophe_inside_double_quotes_is_kept():
     assert read_question('fares at "Ola\'s Tap"').quoted == (("ola's tap", 2),)
+
+
+def test_apostrophes_inside_single_quotes_are_kept():
+    assert read_question("jobs at 'O'Brien's yard' in may").quoted == (("o'brien's yard", 2),)
+    assert read_question("jobs at ‘O’Brien’s yard’").quoted == (("o’brien’s yard", 2),)
 
 
 def test_several_quoted_strings():
