@@ -45,16 +45,41 @@ STRUCTURE_RATE = 0.2     # plasticity of frame and structure features, against 1
 FRAME_WORDS = frozenset({stem(w) for w in STOPWORDS} | {"number"})
 
 
-@dataclass
+@dataclass(eq=False)
 class Example:
-    """One confirmed answer and the candidates the model found for it, as sparse vectors."""
+    """One confirmed answer and the candidates the model found for it, as sparse vectors.
+
+    The features are kept as flat arrays over the example's own feature names (candidate i owns
+    idx[start[i]:start[i + 1]]), not as a dict per candidate: training holds thousands of
+    examples of ~100 candidates each, and the dicts took several times the memory."""
 
     question: str
     gold: list
     forms: list[str]            # canonical text of each candidate
     sizes: list[int]
-    features: list[dict[str, float]]
+    names: tuple[str, ...]      # the features that fire in some candidate, in order first seen
+    idx: np.ndarray             # into names
+    val: np.ndarray
+    start: np.ndarray
     correct: list[bool]
+
+    @classmethod
+    def of(cls, question: str, gold: list, forms: list[str], sizes: list[int],
+           features: list[dict[str, float]], correct: list[bool]) -> Example:
+        index: dict[str, int] = {}
+        idx, val, start = [], [], [0]
+        for feats in features:
+            for name, value in feats.items():
+                idx.append(index.setdefault(name, len(index)))
+                val.append(value)
+            start.append(len(idx))
+        return cls(question, gold, forms, sizes, tuple(index), np.array(idx, dtype=np.int32),
+                   np.array(val, dtype=np.float64), np.array(start, dtype=np.int64), correct)
+
+    def features(self, i: int) -> dict[str, float]:
+        """Candidate i's features by name."""
+        a, b = self.start[i], self.start[i + 1]
+        return {self.names[j]: float(v) for j, v in zip(self.idx[a:b], self.val[a:b])}
 
     @property
     def reachable(self) -> bool:
@@ -79,8 +104,8 @@ def candidates(table: OpenTable, question: str, gold: list,
         correct = [ok and _gives(table, c.form, rows, rows_gold) for ok, c in zip(correct, cands)]
     if meant is not None:
         correct = [ok and str(c.form) == meant for ok, c in zip(correct, cands)]
-    return Example(question, list(gold), [str(c.form) for c in cands],
-                   [_size(c.form) for c in cands], [c.features for c in cands], correct)
+    return Example.of(question, list(gold), [str(c.form) for c in cands],
+                      [_size(c.form) for c in cands], [c.features for c in cands], correct)
 
 
 def _gives(table: OpenTable, form, rows: list[int], gold: list) -> bool:
@@ -116,17 +141,12 @@ class Packed:
 
 def pack(example: Example, model: Model) -> Packed:
     """Index every feature in the model (new ones start at zero) and flatten the example."""
-    new = {name: 0.0 for feats in example.features for name in feats if name not in model.index}
+    new = {name: 0.0 for name in example.names if name not in model.index}
     if new:
         model.update(new)
-    idx, val, start = [], [], [0]
-    for feats in example.features:
-        for name, value in feats.items():
-            idx.append(model.index[name])
-            val.append(value)
-        start.append(len(idx))
+    in_model = np.array([model.index[name] for name in example.names], dtype=np.int64)
     # reduceat needs a non-empty slice per candidate: every candidate has at least "size"
-    return Packed(np.array(idx, dtype=np.int64), np.array(val), np.array(start, dtype=np.int64),
+    return Packed(in_model[example.idx], example.val, example.start,
                   np.array(example.correct, dtype=bool), np.array(example.sizes))
 
 

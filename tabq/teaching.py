@@ -345,7 +345,7 @@ def _record(job: Job, example: Example | None, batch: int) -> dict:
     target, fired = None, []
     if example is not None and example.reachable:
         chosen = example.correct.index(True)
-        target, fired = example.forms[chosen], senses(example.features[chosen])
+        target, fired = example.forms[chosen], senses(example.features(chosen))
     return {"id": job.id, "question": job.question, "table": job.table,
             "fingerprint": _fingerprint(job.table), "answer": job.answer, "query": target,
             "senses": fired,   # what the query means, for the lexicon's support counts

@@ -12,8 +12,8 @@ from tabq.text import stem
 
 
 def _example(features, correct, question="q"):
-    return Example(question, ["gold"], [f"c{i}" for i in range(len(features))],
-                   [1] * len(features), features, correct)
+    return Example.of(question, ["gold"], [f"c{i}" for i in range(len(features))],
+                      [1] * len(features), features, correct)
 
 
 A_RIGHT_B_WRONG = [{"a": 1.0}, {"b": 1.0}]
@@ -145,6 +145,13 @@ def test_pack_indexes_new_features_at_zero_and_flattens():
     assert model.weight("x") == 0.0 and "y" in model.index
     assert list(p.start) == [0, 2, 3]
     assert list(p.scores(model.w)) == pytest.approx([1.5, 0.0])
+
+
+def test_an_example_keeps_each_candidates_features_by_name():
+    feats = [{"a": 1.0, "x": 2.0}, {"x": 0.5, "b": -1.0}, {"size": 1.0}]
+    ex = _example(feats, [False, True, False])
+    assert [ex.features(i) for i in range(3)] == feats
+    assert ex.names == ("a", "x", "b", "size")    # each name once, in the order first seen
 
 
 # ── settling fresh confirmations ──────────────────────────────────────────────────────────────
