@@ -51,7 +51,7 @@ class Example:
 
     The features are kept as flat arrays over the example's own feature names (candidate i owns
     idx[start[i]:start[i + 1]]), not as a dict per candidate: training holds thousands of
-    examples of ~100 candidates each, and the dicts took several times the memory."""
+    examples of ~100 candidates each, and the dicts took more than twice the memory."""
 
     question: str
     gold: list

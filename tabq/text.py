@@ -30,6 +30,7 @@ UNITS = {
     "seventy": 70, "eighty": 80, "ninety": 90, "dozen": 12, "hundred": 100, "thousand": 1000,
     "million": 1_000_000,
 }
+_MULTIPLIERS = ("dozen", "hundred", "thousand", "million")
 ORDINAL_WORDS = {
     "first": 1, "second": 2, "third": 3, "fourth": 4, "fifth": 5, "sixth": 6, "seventh": 7,
     "eighth": 8, "ninth": 9, "tenth": 10, "eleventh": 11, "twelfth": 12, "thirteenth": 13,
@@ -209,9 +210,7 @@ def _number_words(tokens: list[Token], i: int) -> tuple[int, int]:
             j += 1
             continue
         value = UNITS[word]
-        if word == "dozen":   # "two dozen" is 24, "a dozen" (no number before it) 12
-            current = max(current, 1) * value
-        elif value in (100, 1000, 1_000_000):
+        if word in _MULTIPLIERS:   # "two dozen" is 24; "a dozen", with no number before, 12
             current = max(current, 1) * value
             if value > 100:
                 total, current = total + current, 0
