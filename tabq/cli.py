@@ -9,6 +9,7 @@ import sys
 
 from . import api
 from .errors import TabqError
+from .output import as_json, format_result
 
 EXAMPLES = {
     "ask": 'tabq ask sample_tables/repair_jobs.csv "how many jobs were cancelled"',
@@ -243,52 +244,10 @@ def _ask(args: argparse.Namespace) -> int:
     result = table.ask(args.question)
     top = max(1, args.top)
     if args.json:
-        print(json.dumps(_as_json(result, top), ensure_ascii=False, indent=2))
+        print(json.dumps(as_json(result, top), ensure_ascii=False, indent=2))
     else:
         print(format_result(result, top))
     return 0
-
-
-def _as_json(result: api.Result, top: int) -> dict:
-    return {"question": result.question,
-            "answers": [{"answer": [list(v) if isinstance(v, tuple) else v for v in r.answer],
-                         "sql": r.sql, "paraphrase": r.paraphrase,
-                         "score": round(r.score, 4), "probability": round(r.probability, 4),
-                         **({"error": r.error} if r.error else {})}
-                        for r in result.readings[:top]],
-            "unsure": result.unsure, "notes": result.notes}
-
-
-def format_answer(reading: api.Reading, limit: int = 12) -> str:
-    if reading.error:
-        return f"(no answer: {reading.error})"
-    if not reading.answer:
-        return "(no rows)"
-    shown = [" = ".join(map(str, v)) if isinstance(v, tuple) else str(v)
-             for v in reading.answer[:limit]]
-    more = len(reading.answer) - limit
-    return ", ".join(shown) + (f" … and {more} more" if more > 0 else "")
-
-
-def format_result(result: api.Result, top: int = 3) -> str:
-    """The answer, its SQL, its reading and how sure the model is; then the runners-up."""
-    best = result.best
-    if best is None:
-        return "No reading of this question fits the table."
-    sure = f"{best.probability:.0%} of the model's belief"
-    lines = [f"Answer:   {format_answer(best)}",
-             f"Reading:  {best.paraphrase}",
-             f"SQL:      {best.sql}",
-             f"Sureness: {sure}" + ("  — unsure: check the SQL and the other readings"
-                                    if result.unsure else "")]
-    lines += [f"Note:     {note}" for note in result.notes]
-    others = result.readings[1:top]
-    if others:
-        lines.append("Other readings:")
-        for reading in others:
-            lines.append(f"  {format_answer(reading, 6)}  ({reading.probability:.0%}) — "
-                         f"{reading.paraphrase}")
-    return "\n".join(lines)
 
 
 def _teach(args: argparse.Namespace) -> int:

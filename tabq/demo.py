@@ -8,6 +8,7 @@ from pathlib import Path
 
 from . import api
 from .errors import TabqError
+from .output import format_result
 
 MAIN_TABLE = "repair_jobs.csv"
 
@@ -29,7 +30,6 @@ def demo_questions() -> list[str]:
 
 
 def run_demo(say: Callable[[str], None]) -> None:
-    from .cli import format_result
     folder = demo_folder()
     table = api.open(folder / MAIN_TABLE)
     say(f"tabq demo — {MAIN_TABLE}: the jobs log of an invented community bike workshop "
