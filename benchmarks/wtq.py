@@ -16,8 +16,8 @@ import time
 from pathlib import Path
 
 from tabq.learn import OBJECTIVES
+from tabq.model import Model
 from tabq.teaching import DEFAULT_OBJECTIVE, evaluate, learn_from, read_examples
-from tabq.store import load_model
 
 
 def subset(path: Path, n: int | None, out: Path) -> Path:
@@ -44,7 +44,7 @@ def main() -> None:
                                           Path(tmp) / "train.jsonl"))
         test_jobs = read_examples(subset(args.wtq / "dev-test.jsonl", args.test,
                                          Path(tmp) / "test.jsonl"))
-    prior = load_model(None)
+    prior = Model.prior()
     start = time.perf_counter()
     model, report, _ = learn_from(prior, train_jobs, args.objective)
     trained_s = time.perf_counter() - start

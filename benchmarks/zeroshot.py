@@ -29,7 +29,7 @@ def run(paths: list[Path], show_wrong: bool) -> float:
             ex = json.loads(line)
             table_path = (path.parent / ex["table"]).resolve()
             if table_path not in tables:
-                tables[table_path] = tabq.open(table_path)
+                tables[table_path] = tabq.open(table_path, model=tabq.Model.prior())
             t0 = time.perf_counter()
             result = tables[table_path].ask(ex["question"])
             times.append(time.perf_counter() - t0)

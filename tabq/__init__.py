@@ -2,5 +2,6 @@
 
 from .api import OpenTable, Reading, Result, open
 from .errors import TabqError
+from .model import Model
 
-__all__ = ["OpenTable", "Reading", "Result", "TabqError", "open"]
+__all__ = ["Model", "OpenTable", "Reading", "Result", "TabqError", "open"]

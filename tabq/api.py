@@ -21,7 +21,7 @@ from .features import ANSWER_FEATURES, answer_score_bound
 from .load import Table, load_table
 from .model import Model
 from .sql import render
-from .store import load_model  # noqa: F401 (re-exported for the CLI)
+from .store import load_model
 
 EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
 UNSURE = 0.5            # below this share of probability the top answer is flagged
@@ -193,6 +193,10 @@ def _distinct_answers(candidates: list[Reading]) -> list[Reading]:
 
 def open(path: str | Path, model: str | Path | Model | None = None,
          table: str | None = None) -> OpenTable:
-    """Load a table file (CSV, TSV, Parquet, JSON lines, Excel, SQLite) for questions."""
-    loaded = load_table(path, table)
-    return OpenTable(loaded, model if isinstance(model, Model) else load_model(model))
+    """Load a table file (CSV, TSV, Parquet, JSON lines, Excel, SQLite) for questions.
+
+    `model` is a model folder or a `Model`; without one, the default folder's, as `tabq ask`
+    uses ($TABQ_MODEL, else the per-user folder). `Model.prior()` is the untaught model.
+    """
+    chosen = model if isinstance(model, Model) else load_model(model)   # a bad model fails first
+    return OpenTable(load_table(path, table), chosen)

@@ -40,8 +40,8 @@ def _parser() -> argparse.ArgumentParser:
     ask.add_argument("--table", dest="table_name", metavar="NAME",
                      help="which table or sheet of a SQLite or Excel file")
     ask.add_argument("--model", metavar="DIR",
-                     help="a model folder (default: your per-user tabq folder, the untaught "
-                     "model until something is taught)")
+                     help="a model folder (default: $TABQ_MODEL, else your per-user tabq "
+                     "folder; the untaught model until something is taught)")
     ask.add_argument("--top", type=int, default=3, metavar="K",
                      help="how many distinct answers to show (default 3)")
     ask.add_argument("--json", action="store_true", help="print JSON instead of text")
@@ -68,7 +68,9 @@ def _parser() -> argparse.ArgumentParser:
     evaluate.add_argument("examples", help="JSON lines; \"table\" is relative to this file")
     evaluate.add_argument("--train", metavar="TRAIN", help="learn from these examples first")
     evaluate.add_argument("--model", metavar="DIR",
-                          help="a model folder to start from (and to save to with --train)")
+                          help="a model folder to start from (and to save to with --train); "
+                          "default: the untaught prior, not your per-user folder nor "
+                          "$TABQ_MODEL, so results do not depend on what was taught")
     evaluate.add_argument("--predictions", metavar="OUT",
                           help='write {"id", "answer", "sql"} a line')
     evaluate.add_argument("--json", action="store_true", help="print the report as JSON")
@@ -77,7 +79,9 @@ def _parser() -> argparse.ArgumentParser:
 
     demo = commands.add_parser("demo", help="ask the demo tables a few questions",
                                description="Ask the invented demo tables (a community bike "
-                               "workshop) a few questions and show the answers with their SQL.",
+                               "workshop) a few questions and show the answers with their SQL. "
+                               "The demo shows tabq out of the box: it asks with the untaught "
+                               "model, not your model folder.",
                                epilog=f"example: {EXAMPLES['demo']}")
     demo.set_defaults(run=_demo)
     _lexicon_parser(commands)
@@ -238,9 +242,8 @@ def _one_line(text: str) -> str:
 
 
 def _ask(args: argparse.Namespace) -> int:
-    from .store import ModelFolder
-    model = ModelFolder(args.model).load()     # what `tabq teach` taught, by default too
-    table = api.open(args.table, model=model, table=args.table_name)
+    # no --model: the default folder, as `tabq.open` and `tabq teach` use
+    table = api.open(args.table, model=args.model, table=args.table_name)
     result = table.ask(args.question)
     top = max(1, args.top)
     if args.json:
@@ -267,12 +270,14 @@ def _teach(args: argparse.Namespace) -> int:
 def _eval(args: argparse.Namespace) -> int:
     import time as _time
 
+    from .model import Model
     from .store import ModelFolder
     from .teaching import evaluate, learn_from, read_examples, teach, write_predictions
     jobs = read_examples(args.examples)
     train_jobs = read_examples(args.train) if args.train else []
     folder = ModelFolder(args.model) if args.model else None
-    model = folder.load() if folder else api.load_model(None)
+    # no --model: the untaught prior, never the default folder, so a figure is reproducible
+    model = folder.load() if folder else Model.prior()
     trained = None
     if train_jobs:
         start = _time.perf_counter()

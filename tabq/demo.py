@@ -8,6 +8,7 @@ from pathlib import Path
 
 from . import api
 from .errors import TabqError
+from .model import Model
 from .output import format_result
 
 MAIN_TABLE = "repair_jobs.csv"
@@ -30,10 +31,12 @@ def demo_questions() -> list[str]:
 
 
 def run_demo(say: Callable[[str], None]) -> None:
+    """tabq out of the box: the untaught model, whatever the default model folder has learned."""
     folder = demo_folder()
-    table = api.open(folder / MAIN_TABLE)
+    table = api.open(folder / MAIN_TABLE, model=Model.prior())
     say(f"tabq demo — {MAIN_TABLE}: the jobs log of an invented community bike workshop "
-        f"({table.table.row_count} rows). Check each answer's SQL before acting on it.\n")
+        f"({table.table.row_count} rows), asked with the untaught model. Check each answer's "
+        "SQL before acting on it.\n")
     for question in demo_questions():
         say(f"Q: {question}")
         try:

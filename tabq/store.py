@@ -33,10 +33,15 @@ LOG = "log.jsonl"
 LOCK = "lock"
 FORMAT = "tabq-weights"
 KNOWN = {WEIGHTS, LOG, LOCK}
+MODEL_ENV = "TABQ_MODEL"    # a model folder that stands in for the per-user one everywhere
 
 
 def default_folder() -> Path:
-    """The per-user model folder, used when no --model is given to a command that teaches."""
+    """The model folder used when none is given (`tabq ask`, `teach`, `ui`, `lexicon` and
+    `tabq.open`): the folder named by $TABQ_MODEL, else the per-user one (platformdirs)."""
+    named = os.environ.get(MODEL_ENV, "").strip()
+    if named:
+        return Path(named).expanduser()
     return Path(platformdirs.user_data_dir("tabq", appauthor=False)) / "model"
 
 
@@ -158,6 +163,7 @@ def _atomic_write(path: Path, text: str) -> None:
         raise
 
 
-def load_model(folder: str | Path | None) -> Model:
-    """The model a command asks with: the prior when no folder is given or nothing is learned."""
-    return Model.prior() if folder is None else ModelFolder(folder).load()
+def load_model(folder: str | Path | None = None) -> Model:
+    """The model a question is asked with: the folder's, or without one the default folder's
+    (`default_folder`); the prior when nothing was learned there."""
+    return ModelFolder(folder).load()

@@ -12,6 +12,10 @@ FIXTURES = Path(__file__).resolve().parent / "fixtures"
 # The per-user model folder (`tabq teach` without --model) goes to a throwaway place, so the
 # tests never read or change the real one; commands run by the tests inherit this.
 os.environ["XDG_DATA_HOME"] = tempfile.mkdtemp(prefix="tabq-test-data-")
+# TABQ_MODEL stands in for that folder: an empty throwaway one, so `tabq.open(path)` asks with
+# the untaught model even where platformdirs ignores XDG_DATA_HOME (macOS) or the shell that
+# runs the tests has a TABQ_MODEL of its own.
+os.environ["TABQ_MODEL"] = os.path.join(tempfile.mkdtemp(prefix="tabq-test-model-"), "model")
 
 
 @pytest.fixture(scope="session")
