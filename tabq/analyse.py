@@ -17,19 +17,13 @@ from rapidfuzz import fuzz
 from .errors import QuestionError
 from .load import ROW, Column, Table
 from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
+from .rules import OPERATORS
 from .text import DateMention, Words, normalise, read_question, split_words, stem
 
 MAX_QUESTION = 2000      # characters; longer questions are cut, and the result says so
 MAX_NGRAM = 6
 FLOATING_VALUES = 12     # a column with at most this many values offers them without a mention
 UNEXPLAINED_WORDS = 6    # words a floating value may stand on (a long question would multiply them)
-OPERATORS = {
-    "CMP": ("gt", "lt", "ge", "le"), "AGG": ("sum", "avg", "min", "max", "median"),
-    "DIR": ("max", "min"), "POS": ("first", "last"), "STEP": ("next", "prev"),
-    "COUNT": ("count",), "COUNTD": ("count_distinct",), "DISTINCT": ("distinct",),
-    "NOT": ("not",), "OR": ("or",), "MISSING": ("missing",), "PRESENT": ("present",),
-    "ALL": ("all",), "YESNO": ("yes_no",), "GROUP": ("group",),
-}
 
 
 @dataclass(frozen=True)

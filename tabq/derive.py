@@ -4,14 +4,16 @@ The rules come from `grammar/question.lark` (lark compiles the file; we read its
 builds forms bottom-up by size: an item of size s applies one rule to atoms and to items whose
 sizes sum to s − 1. Every (category, size) cell keeps only its best `beam` items by model score,
 so the number of forms stays bounded however permissive the rules are — nothing is enumerated.
-Each rule's alias names a builder below that makes the logical form, or refuses an ill-typed one.
+Each rule's alias names its specification in `rules.py`: the builder that makes the logical form
+(or refuses an ill-typed one) and what it may combine.
 """
 
 from __future__ import annotations
 
-import datetime
+import inspect
 import itertools
-from collections.abc import Callable
+import string
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
 from operator import itemgetter
@@ -24,6 +26,7 @@ from .features import CHILD_FEATURES, NODE_FEATURES, ROOT_FEATURES, Step, fragme
 from .features import lexical_column
 from .features import lexical_value
 from .model import Model
+from .rules import OPERATOR_FRAGMENTS, SPECS, Spec
 
 MAX_SIZE = 6
 ROW_BEAM = 40
@@ -47,16 +50,52 @@ class Rule:
 
 @lru_cache(maxsize=1)
 def rules() -> tuple[Rule, ...]:
-    """The composition rules of the grammar file, as lark compiles them."""
+    """The composition rules of the grammar file, as lark compiles them, checked against their
+    specifications in rules.py."""
     grammar = Lark.open("grammar/question.lark", rel_to=__file__, parser="earley")
     found = []
     for rule in grammar.rules:
         if rule.alias:
             found.append(Rule(rule.origin.name, tuple(s.name for s in rule.expansion), rule.alias))
-    missing = {r.alias for r in found} - set(BUILDERS)
-    if missing:
-        raise RuntimeError(f"grammar rules without a builder: {sorted(missing)}")
+    check_specs(found, SPECS)
     return tuple(found)
+
+
+def check_specs(found: Sequence[Rule], specs: Mapping[str, Spec]) -> None:
+    """Raise unless the grammar's alternatives and the specs name the same aliases and each spec
+    fits its alternative."""
+    aliases = {rule.alias for rule in found}
+    if aliases - set(specs):
+        raise RuntimeError(f"grammar rules without a spec in rules.py: "
+                           f"{sorted(aliases - set(specs))}")
+    if set(specs) - aliases:
+        raise RuntimeError(f"specs in rules.py naming no grammar rule: "
+                           f"{sorted(set(specs) - aliases)}")
+    for rule in found:
+        problem = _disagreement(rule, specs[rule.alias])
+        if problem:
+            raise RuntimeError(f"the spec of {rule.alias} in rules.py: {problem}")
+
+
+def _disagreement(rule: Rule, spec: Spec) -> str | None:
+    """What in a spec does not fit its grammar alternative, if anything."""
+    if not _takes(spec.build, 1 + len(rule.symbols)):
+        return f"its builder does not take the analysis and one value for each of {rule.symbols}"
+    if spec.fits is not None and not _takes(spec.fits, len(rule.slots)):
+        return f"its fits does not take one value for each slot of {rule.symbols}"
+    named = {field for fragment in spec.fragments
+             for _, field, _, _ in string.Formatter().parse(fragment) if field}
+    if named - (set(rule.symbols) & set(OPERATOR_FRAGMENTS)):
+        return f"its fragments name {sorted(named)}, not all operator slots of {rule.symbols}"
+    return None
+
+
+def _takes(fn: Callable, count: int) -> bool:
+    try:
+        inspect.signature(fn).bind(*range(count))
+    except TypeError:
+        return False
+    return True
 
 
 @dataclass(frozen=True, eq=False)
@@ -101,7 +140,7 @@ def derive(analysis: Analysis, model: Model, max_size: int = MAX_SIZE,
             if len(kids) > size - 1 or (not kids and size != 1):
                 continue
             for sizes in _splits(size - 1, len(kids)):
-                accepts = ACCEPTS.get(rule.alias, lambda form: True)
+                accepts = SPECS[rule.alias].accepts or (lambda form: True)
                 width = pair_beam if len(kids) > 1 else row_beam
                 cells = [[i for i in chart.get((k, s), []) if accepts(i.form)][:width]
                          for k, s in zip(kids, sizes)]
@@ -212,17 +251,13 @@ def _atom_parts(analysis: Analysis, atom: Atom) -> list[dict]:
     return parts
 
 
-OPERATOR_FRAGMENTS = {"AGG": ("{}",), "DIR": ("dir:{}", "extreme:{}"), "CMP": ("cmp:{}",),
-                      "POS": ("{}",), "STEP": ("{}",)}
-
-
 def _atom_scores(analysis: Analysis, scorer: _Scorer) -> dict[Atom, float]:
     """What each atom scores alone: the order in which the chart tries them."""
     scores = {}
     for slot, atoms in analysis.atoms.items():
         for atom in atoms:
             if slot in OPERATOR_FRAGMENTS:
-                scores[atom] = max(scorer.score(lexical(analysis, f.format(atom.value)))
+                scores[atom] = max(scorer.score(lexical(analysis, f.format_map({slot: atom.value})))
                                    for f in OPERATOR_FRAGMENTS[slot])
                 continue
             step = Step("probe", (atom,), ())
@@ -270,7 +305,7 @@ def _combos(rule: Rule, analysis: Analysis, scores: dict[Atom, float], limit: in
     found.sort(key=lambda c: -c[0])
     best = [(score, tuple(atom for atom, _, _ in picks), _tokens(taken))
             for score, picks, taken in found[:limit]]
-    fits = FITS.get(rule.alias)
+    fits = SPECS[rule.alias].fits
     return best if fits is None else [c for c in best if fits(*(a.value for a in c[1]))]
 
 
@@ -286,7 +321,7 @@ def _tokens(mask: int) -> frozenset[int]:
 def _apply(rule: Rule, combos, cells: list[list[Item]], scorer: _Scorer, size: int):
     """Build the rule's most promising forms: best sub-forms with best slot fillings first."""
     analysis = scorer.analysis
-    builder = BUILDERS[rule.alias]
+    builder = SPECS[rule.alias].build
     plans = []
     for kids in itertools.product(*cells):
         used = frozenset()
@@ -346,290 +381,3 @@ def _args(rule: Rule, atoms: tuple[Atom, ...], kids: tuple[Item, ...]) -> list:
     for symbol in rule.symbols:
         args.append(next(a).value if symbol.isupper() else next(k).form)
     return args
-
-
-# ── builders: one per rule alias ──────────────────────────────────────────────────────────────
-Builder = Callable[..., "L.Form | None"]
-BUILDERS: dict[str, Builder] = {}
-
-
-def builder(fn: Builder) -> Builder:
-    BUILDERS[fn.__name__] = fn
-    return fn
-
-
-def _simple(rows: L.Rows) -> bool:
-    """A row set picked by one condition on cells (not by position or by another set)."""
-    return isinstance(rows, (L.Eq, L.Cmp, L.Between, L.Contains, L.Missing, L.Period))
-
-
-def _scoped(rows: L.Rows) -> bool:
-    return not isinstance(rows, (L.Extreme, L.Position, L.Neighbour))
-
-
-@builder
-def all_rows(a, _):
-    return L.All()
-
-
-@builder
-def has_value(a, entity):
-    col, value = entity
-    return None if value is None else L.Eq(col, value)
-
-
-@builder
-def contains(a, entity):
-    return L.Contains(*entity)
-
-
-@builder
-def compare(a, col, op, number):
-    return L.Cmp(col, op, number)
-
-
-@builder
-def compare_date(a, col, op, date):
-    if date.day and date.month and date.year:
-        try:
-            value = datetime.date(date.year, date.month, date.day)
-        except ValueError:
-            return None
-    elif date.year and not date.month:   # "after 2019" is after the end of 2019
-        value = datetime.date(date.year, 12, 31) if op in ("gt", "le") else datetime.date(
-            date.year, 1, 1)
-    else:
-        return None
-    return L.Cmp(col, op, value)
-
-
-@builder
-def between(a, col, low, high):
-    return L.Between(col, min(low, high), max(low, high)) if low != high else None
-
-
-@builder
-def period(a, col, date):
-    return L.Period(col, date.year, date.month)
-
-
-@builder
-def missing(a, col, _):
-    return L.Missing(col) if a.table.column(col).nulls else None
-
-
-@builder
-def present(a, col, _):
-    return L.Not(L.Missing(col)) if a.table.column(col).nulls else None
-
-
-@builder
-def both(a, left, right):
-    if isinstance(left, L.All) or isinstance(right, L.All) or left == right:
-        return None
-    if isinstance(left, L.Eq) and isinstance(right, L.Eq) and left.col == right.col:
-        return None
-    if not (_scoped(left) and _scoped(right)):
-        return None
-    left, right = sorted((left, right), key=str)
-    return L.And(left, right)
-
-
-@builder
-def either(a, left, _, right):
-    if not (_simple(left) and _simple(right)) or left == right:
-        return None
-    left, right = sorted((left, right), key=str)
-    return L.Or(left, right)
-
-
-@builder
-def negate(a, _, rows):
-    return L.Not(rows) if _simple(rows) and not isinstance(rows, L.Missing) else None
-
-
-@builder
-def extreme(a, rows, col, direction):
-    if not _scoped(rows):
-        return None
-    return L.Extreme(rows, col, direction)
-
-
-@builder
-def position(a, rows, which):
-    return L.Position(rows, which) if _scoped(rows) else None
-
-
-@builder
-def neighbour(a, rows, step):
-    if isinstance(rows, (L.All, L.Neighbour)):
-        return None
-    return L.Neighbour(rows, step)
-
-
-def _filters_on(rows: L.Rows, col: str) -> bool:
-    return isinstance(rows, L.Eq) and rows.col == col
-
-
-@builder
-def values(a, col, rows):
-    return None if _filters_on(rows, col) else L.Values(col, rows)
-
-
-@builder
-def distinct(a, col, rows, _):
-    if _filters_on(rows, col) or a.table.column(col).distinct >= max(a.table.row_count, 2):
-        return None
-    return L.Distinct(col, rows)
-
-
-@builder
-def count(a, _, rows):
-    return L.Aggregate("count", None, rows)
-
-
-@builder
-def count_distinct(a, _, col, rows):
-    return None if _filters_on(rows, col) else L.Aggregate("count_distinct", col, rows)
-
-
-@builder
-def aggregate(a, fn, col, rows):
-    return L.Aggregate(fn, col, rows)
-
-
-def _pair(left: L.Rows, right: L.Rows) -> bool:
-    return _simple(left) and _simple(right) and left != right
-
-
-@builder
-def count_difference(a, _, left, right):
-    if not _pair(left, right):
-        return None
-    left, right = sorted((left, right), key=str)
-    return L.Difference(L.Aggregate("count", None, left), L.Aggregate("count", None, right))
-
-
-@builder
-def aggregate_difference(a, fn, col, left, right):
-    if not _pair(left, right) or fn == "median":
-        return None
-    left, right = sorted((left, right), key=str)
-    return L.Difference(L.Aggregate(fn, col, left), L.Aggregate(fn, col, right))
-
-
-def _two(first, second):
-    (c1, v1), (c2, v2) = first, second
-    if c1 != c2 or v1 == v2:
-        return None
-    return (c1, *sorted((v1, v2), key=str))
-
-
-@builder
-def which_of_count(a, first, second, _, direction):
-    pair = _two(first, second)
-    return pair and L.WhichOf(pair[0], pair[1], pair[2], "count", None, direction)
-
-
-@builder
-def which_of_value(a, first, second, col, direction):
-    pair = _two(first, second)
-    if not pair or pair[0] == col:
-        return None
-    return L.WhichOf(pair[0], pair[1], pair[2], "sum", col, direction)
-
-
-@builder
-def which_of_position(a, first, second, which):
-    pair = _two(first, second)
-    direction = "min" if which == "first" else "max"
-    return pair and L.WhichOf(pair[0], pair[1], pair[2], "min", "__row", direction)
-
-
-@builder
-def group_best_count(a, key, _, rows, direction):
-    return None if _filters_on(rows, key) else L.GroupBest(key, "count", None, rows, direction)
-
-
-@builder
-def group_best(a, key, fn, col, rows, direction):
-    if key == col or _filters_on(rows, key):
-        return None
-    return L.GroupBest(key, fn, col, rows, direction)
-
-
-@builder
-def top_n(a, col, n, rows, by, direction):
-    if not float(n).is_integer() or not 2 <= n <= 100 or not _scoped(rows):
-        return None
-    return L.TopN(col, int(n), rows, by, direction)
-
-
-@builder
-def spread(a, fn1, fn2, col, rows):
-    if {fn1, fn2} != {"max", "min"} or fn1 != "max":
-        return None
-    return L.Difference(L.Aggregate("max", col, rows), L.Aggregate("min", col, rows))
-
-
-@builder
-def top_values(a, col, n, rows, direction):
-    return top_n(a, col, n, rows, col, direction)
-
-
-def _count_n(n) -> int | None:
-    return int(n) if float(n).is_integer() and 2 <= n <= 100 else None
-
-
-@builder
-def group_top_count(a, key, n, _, rows, direction):
-    n = _count_n(n)
-    if n is None or _filters_on(rows, key) or not _scoped(rows):
-        return None
-    return L.GroupTop(key, "count", None, n, rows, direction)
-
-
-@builder
-def group_top(a, key, n, fn, col, rows, direction):
-    n = _count_n(n)
-    if n is None or key == col or _filters_on(rows, key) or not _scoped(rows):
-        return None
-    return L.GroupTop(key, fn, col, n, rows, direction)
-
-
-@builder
-def yes_no(a, _, rows):
-    return None if isinstance(rows, L.All) else L.YesNo(rows)
-
-
-@builder
-def per_group_count(a, key, _, rows, __):
-    return None if _filters_on(rows, key) else L.GroupTable(key, "count", None, rows)
-
-
-@builder
-def per_group(a, key, fn, col, rows, _):
-    if key == col or _filters_on(rows, key):
-        return None
-    return L.GroupTable(key, fn, col, rows)
-
-
-# Slot fillings a rule's builder refuses whatever the sub-forms, dropped before any is tried.
-# They are dropped after the cut to the best fillings, so the chart is the one trying them would
-# give; most fillings of these rules are refused, and trying each with every sub-form costs.
-FITS: dict[str, Callable[..., bool]] = {
-    "spread": lambda fn1, fn2, col: (fn1, fn2) == ("max", "min"),
-    "which_of_count": lambda first, second, *_: _two(first, second) is not None,
-    "which_of_value": lambda first, second, col, _: (
-        _two(first, second) is not None and first[0] != col),
-    "which_of_position": lambda first, second, _: _two(first, second) is not None,
-}
-
-# What sub-forms a rule can take at all: filtering before combining keeps the chart small.
-ACCEPTS: dict[str, Callable[[L.Form], bool]] = {
-    "both": lambda f: _scoped(f) and not isinstance(f, L.All),
-    "either": _simple, "negate": _simple, "count_difference": _simple,
-    "aggregate_difference": _simple, "extreme": _scoped, "position": _scoped,
-    "neighbour": lambda f: not isinstance(f, (L.All, L.Neighbour)),
-    "yes_no": lambda f: not isinstance(f, L.All), "top_n": _scoped,
-}

@@ -19,26 +19,13 @@ from dataclasses import dataclass
 from .analyse import Analysis, Atom
 from .answers import Denotation
 from .logic import Extreme, Neighbour, Position, walk
+from .rules import OPERATOR_FRAGMENTS, spec_of
 
 Features = dict[str, float]
 NODE_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
 CHILD_FEATURES: list[Callable[[Analysis, "Step"], Features]] = []
 ROOT_FEATURES: list[Callable[[Analysis, frozenset[int], frozenset[str]], Features]] = []
 ANSWER_FEATURES: list[Callable[[Analysis, Denotation], Features]] = []
-
-# The role a column plays, by the rule that uses it (see grammar/question.lark).
-ROLES = {
-    "values": "values", "distinct": "values", "count_distinct": "values", "top_n": "values",
-    "aggregate": "measure", "aggregate_difference": "measure", "which_of_value": "measure",
-    "spread": "measure", "top_values": "values", "group_top": "key", "group_top_count": "key",
-    "group_best": "key", "group_best_count": "key", "per_group": "key", "per_group_count": "key",
-    "compare": "filter", "compare_date": "datefilter", "between": "filter",
-    "period": "datefilter",
-    "missing": "filter", "present": "filter", "extreme": "order",
-}
-OPERATOR_SLOTS = {"CMP", "AGG", "DIR", "POS", "STEP"}
-# In these an aggregate measures groups: "most tickets" there is a sum, not a maximum.
-GROUP_RULES = ("group_best", "group_top", "per_group", "which_of_value")
 
 
 @dataclass(frozen=True)
@@ -73,36 +60,10 @@ def answer_feature(fn):
 
 
 def fragments(step: Step) -> list[str]:
-    """The pieces of meaning a step adds: "sum", "cmp:gt", "extreme:max", "dir:min" …"""
-    ops = {a.slot: a.value for a in step.atoms if a.slot in OPERATOR_SLOTS}
-    rule = step.rule
-    if rule in ("compare", "compare_date"):
-        return [f"cmp:{ops['CMP']}"]
-    if rule == "extreme":
-        return [f"extreme:{ops['DIR']}"]
-    if rule in ("position", "neighbour"):
-        return [ops.get("POS") or ops["STEP"]]
-    names = {"has_value": "eq", "both": "and", "either": "or", "negate": "not",
-             "count_difference": "difference", "aggregate_difference": "difference",
-             "which_of_count": "which_of", "which_of_value": "which_of",
-             "which_of_position": "which_of", "group_best_count": "group_best",
-             "per_group_count": "per_group", "aggregate": None, "all_rows": None,
-             "spread": "difference", "top_values": "top_n", "group_top_count": "group_top"}
-    out = [names.get(rule, rule)] if names.get(rule, rule) else []
-    if rule == "spread":
-        out += ["max", "min"]
-    elif "AGG" in ops and rule in GROUP_RULES:
-        out.append(f"group:{ops['AGG']}")
-    elif "AGG" in ops:
-        out.append(ops["AGG"])
-    if rule in ("count", "count_difference", "which_of_count", "group_best_count",
-                "per_group_count", "group_top_count"):
-        out.append("count")
-    if "DIR" in ops:
-        out.append(f"dir:{ops['DIR']}")
-    if "POS" in ops and rule == "which_of_position":
-        out.append(ops["POS"])
-    return out
+    """The pieces of meaning a step adds, as its rule's spec names them: "sum", "cmp:gt",
+    "extreme:max", "dir:min" …"""
+    ops = {a.slot: a.value for a in step.atoms if a.slot in OPERATOR_FRAGMENTS}
+    return [fragment.format_map(ops) for fragment in spec_of(step.rule).fragments]
 
 
 def lexical(analysis: Analysis, fragment: str) -> Features:
@@ -143,29 +104,24 @@ def size(analysis: Analysis, step: Step) -> Features:
 @node_feature
 def column_matches(analysis: Analysis, step: Step) -> Features:
     feats: Features = {}
-    role = ROLES.get(step.rule, "other")
+    spec = spec_of(step.rule)
     for atom in step.atoms:
         if atom.slot.endswith("COL"):
             col = analysis.table.column(atom.value)
-            if not (role == "datefilter" and atom.quality == "none"):
+            if not (spec.role == "datefilter" and atom.quality == "none"):
                 _add(feats, f"col:{atom.quality}")
-            _add(feats, f"{role}.col:{atom.quality}")
+            _add(feats, f"{spec.role}.col:{atom.quality}")
             if col.view:
                 _add(feats, "col:view")
             if _looks_like_id(col, analysis):
                 _add(feats, "col:id")
             if atom.covers:
                 _add(feats, "cover", atom.covers)
-            if atom.span and atom.span[0] == analysis.head and step.rule in HEAD_RULES:
+            if atom.span and atom.span[0] == analysis.head and spec.head:
                 _add(feats, f"head:{step.rule}")
-            if atom.span and atom.span[0] == analysis.wh_head and step.rule in HEAD_RULES:
+            if atom.span and atom.span[0] == analysis.wh_head and spec.head:
                 _add(feats, f"whhead:{step.rule}")
     return feats
-
-
-# Rules whose column is what "how many X" counts: X names a column, not the rows.
-HEAD_RULES = ("count_distinct", "values", "aggregate", "distinct", "group_best",
-              "group_best_count", "group_top", "group_top_count", "top_n", "top_values")
 
 
 @node_feature
@@ -191,7 +147,7 @@ def value_matches(analysis: Analysis, step: Step) -> Features:
 
 @node_feature
 def comparisons(analysis: Analysis, step: Step) -> Features:
-    if step.rule not in ("compare", "between"):
+    if not spec_of(step.rule).compares_numbers:
         return {}
     col = next(a for a in step.atoms if a.slot == "NUMCOL")
     info = analysis.table.column(col.value)
@@ -203,20 +159,15 @@ def comparisons(analysis: Analysis, step: Step) -> Features:
     return feats
 
 
-AGGREGATING = ("count", "aggregate", "count_distinct")
-SUPERLATIVES = ("extreme", "group_best", "group_best_count", "top_n", "which_of_count",
-                "which_of_value", "which_of_position", "top_values", "group_top",
-                "group_top_count", "spread")
-
-
 @child_feature
 def nesting(analysis: Analysis, step: Step) -> Features:
     """Two superlatives in one form, or conditions stacked deep, are rarely what was asked."""
     feats: Features = {}
-    if step.rule in AGGREGATING and step.child_forms and isinstance(
+    spec = spec_of(step.rule)
+    if spec.aggregating and step.child_forms and isinstance(
             step.child_forms[0], (Extreme, Position, Neighbour)):
         _add(feats, "agg.on_single")
-    if step.rule in SUPERLATIVES or step.rule == "position":
+    if spec.superlative:
         for form in step.child_forms:
             if any(isinstance(n, (Extreme, Position)) for n in walk(form)):
                 _add(feats, "super:nested")

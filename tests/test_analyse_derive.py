@@ -1,15 +1,17 @@
 """analyse, derive and features, each called alone on the demo tables."""
 
+import dataclasses
+
 import pytest
 import sqlglot
 
 import tabq
 from tabq import logic as L
 from tabq.analyse import analyse
-from tabq import derive as derive_module
 from tabq.derive import ANSWER_BEAM, MAX_SIZE, derive, rules
 from tabq.features import NODE_FEATURES, Step, fragments
 from tabq.model import Model
+from tabq.rules import SPECS
 
 
 @pytest.fixture(scope="module")
@@ -59,7 +61,8 @@ DERIVE_QUESTIONS = ["which mechanic has done the most jobs", "difference between
 
 
 def test_dropping_the_fillings_builders_refuse_changes_no_candidate(demo, monkeypatch):
-    """derive.FITS only saves tries: with it emptied the chart tries those fillings too."""
+    """A spec's `fits` only saves tries: with every one dropped the chart tries those fillings
+    too."""
     model = Model.prior()
 
     def chart():
@@ -67,8 +70,10 @@ def test_dropping_the_fillings_builders_refuse_changes_no_candidate(demo, monkey
                 for q in DERIVE_QUESTIONS]
 
     with_fits = chart()
-    monkeypatch.setattr(derive_module, "FITS", {})
-    assert chart() == with_fits
+    dropped = [alias for alias, spec in SPECS.items() if spec.fits is not None]
+    for alias in dropped:
+        monkeypatch.setitem(SPECS, alias, dataclasses.replace(SPECS[alias], fits=None))
+    assert dropped and chart() == with_fits
 
 
 def test_every_candidate_sql_reparses(demo):

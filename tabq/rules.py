@@ -1,0 +1,346 @@
+"""rules: what each composition of the grammar means, one specification per rule alias.
+
+`grammar/question.lark` says which compositions exist; each alternative's alias names a `Spec`
+here, registered by `@specify` on the alternative's builder. The spec holds everything known
+about the rule: the builder that makes its logical form (or refuses an ill-typed one), which
+sub-forms and slot fillings it can take, and what the features need (its fragments of meaning,
+its column's role, flags). `derive.rules()` raises when the grammar and the specs disagree, so
+a new composition is one grammar line plus one decorated builder.
+"""
+
+from __future__ import annotations
+
+import datetime
+from collections.abc import Callable
+from dataclasses import dataclass
+from typing import Any
+
+from . import logic as L
+
+# Operator slots and the values `analyse` offers for each, whatever the question says (the
+# lexical features decide which one a word asks for).
+OPERATORS = {
+    "CMP": ("gt", "lt", "ge", "le"), "AGG": ("sum", "avg", "min", "max", "median"),
+    "DIR": ("max", "min"), "POS": ("first", "last"), "STEP": ("next", "prev"),
+    "COUNT": ("count",), "COUNTD": ("count_distinct",), "DISTINCT": ("distinct",),
+    "NOT": ("not",), "OR": ("or",), "MISSING": ("missing",), "PRESENT": ("present",),
+    "ALL": ("all",), "YESNO": ("yes_no",), "GROUP": ("group",),
+}
+# The operator slots whose value is a fragment of meaning, and the fragments it may stand for
+# ("{DIR}" is the atom's value, as in `Spec.fragments`): the chart ranks such an atom by the
+# best of them before any rule applies it.
+OPERATOR_FRAGMENTS = {"AGG": ("{AGG}",), "DIR": ("dir:{DIR}", "extreme:{DIR}"),
+                      "CMP": ("cmp:{CMP}",), "POS": ("{POS}",), "STEP": ("{STEP}",)}
+
+Builder = Callable[..., "L.Form | None"]
+
+
+@dataclass(frozen=True)
+class Spec:
+    """Everything known about one grammar rule alias.
+
+    `build(a, *values)` takes the question's analysis and one value per symbol of the
+    alternative, in order (an atom's value for a slot, a sub-form for `rows`), and returns the
+    form or None to refuse it. The chart gives it only sub-forms that `accepts` lets through.
+    """
+
+    build: Builder
+    # Pieces of meaning the step adds, paired with question words by the lexical features;
+    # "{CMP}" is the value of the step's CMP atom (see OPERATOR_FRAGMENTS).
+    fragments: tuple[str, ...] = ()
+    # What the rule's column does (values, measure, key, filter, datefilter, order), for the
+    # column-match features.
+    role: str = "other"
+    # Which sub-forms the rule may take at all. The chart filters before cutting each side to
+    # its beam, so this shapes the candidates; None takes any.
+    accepts: Callable[[L.Form], bool] | None = None
+    # Which slot fillings can ever build, dropped before any sub-form is tried. Only saves
+    # tries: the builder refuses them too (tests/test_analyse_derive.py checks it).
+    fits: Callable[..., bool] | None = None
+    head: bool = False              # its column is what "how many X" / "which X" names
+    aggregating: bool = False       # aggregates its rows: over one picked row it is suspect
+    superlative: bool = False       # picks by order: another pick inside is rarely meant
+    compares_numbers: bool = False  # a NUMBER against its NUMCOL: outside the range is suspect
+
+
+SPECS: dict[str, Spec] = {}
+# A step of no rule (derive scores a lone atom as a "probe" step) adds nothing.
+NO_RULE = Spec(lambda a, *values: None)
+
+
+def specify(**details: Any) -> Callable[[Builder], Builder]:
+    """Register the decorated builder's spec under the builder's name, the grammar alias."""
+    def register(build: Builder) -> Builder:
+        SPECS[build.__name__] = Spec(build, **details)
+        return build
+    return register
+
+
+def spec_of(alias: str) -> Spec:
+    """The spec of a rule alias (NO_RULE for a step no rule made)."""
+    return SPECS.get(alias, NO_RULE)
+
+
+# ── what sub-forms and fillings rules take ───────────────────────────────────────────────────
+def simple(rows: L.Form) -> bool:
+    """A row set picked by one condition on cells (not by position or by another set)."""
+    return isinstance(rows, (L.Eq, L.Cmp, L.Between, L.Contains, L.Missing, L.Period))
+
+
+def scoped(rows: L.Form) -> bool:
+    """A row set not already cut down to picked rows (a superlative, position or neighbour)."""
+    return not isinstance(rows, (L.Extreme, L.Position, L.Neighbour))
+
+
+def _filters_on(rows: L.Rows, col: str) -> bool:
+    return isinstance(rows, L.Eq) and rows.col == col
+
+
+def _two(first: tuple, second: tuple) -> tuple | None:
+    """Two values of one column, in a fixed order (the column first), or None."""
+    (c1, v1), (c2, v2) = first, second
+    if c1 != c2 or v1 == v2:
+        return None
+    return (c1, *sorted((v1, v2), key=str))
+
+
+def _count_n(n: float) -> int | None:
+    return int(n) if float(n).is_integer() and 2 <= n <= 100 else None
+
+
+# ── row sets ──────────────────────────────────────────────────────────────────────────────────
+@specify()
+def all_rows(a, _) -> L.Rows | None:
+    return L.All()
+
+
+@specify(fragments=("eq",))
+def has_value(a, entity: tuple) -> L.Rows | None:
+    col, value = entity
+    return None if value is None else L.Eq(col, value)
+
+
+@specify(fragments=("contains",))
+def contains(a, entity: tuple) -> L.Rows | None:
+    return L.Contains(*entity)
+
+
+@specify(fragments=("cmp:{CMP}",), role="filter", compares_numbers=True)
+def compare(a, col: str, op: str, number: float) -> L.Rows | None:
+    return L.Cmp(col, op, number)
+
+
+@specify(fragments=("cmp:{CMP}",), role="datefilter")
+def compare_date(a, col: str, op: str, date) -> L.Rows | None:
+    if date.day and date.month and date.year:
+        try:
+            value = datetime.date(date.year, date.month, date.day)
+        except ValueError:
+            return None
+    elif date.year and not date.month:   # "after 2019" is after the end of 2019
+        value = datetime.date(date.year, 12, 31) if op in ("gt", "le") else datetime.date(
+            date.year, 1, 1)
+    else:
+        return None
+    return L.Cmp(col, op, value)
+
+
+@specify(fragments=("between",), role="filter", compares_numbers=True)
+def between(a, col: str, low: float, high: float) -> L.Rows | None:
+    return L.Between(col, min(low, high), max(low, high)) if low != high else None
+
+
+@specify(fragments=("period",), role="datefilter")
+def period(a, col: str, date) -> L.Rows | None:
+    return L.Period(col, date.year, date.month)
+
+
+@specify(fragments=("missing",), role="filter")
+def missing(a, col: str, _) -> L.Rows | None:
+    return L.Missing(col) if a.table.column(col).nulls else None
+
+
+@specify(fragments=("present",), role="filter")
+def present(a, col: str, _) -> L.Rows | None:
+    return L.Not(L.Missing(col)) if a.table.column(col).nulls else None
+
+
+@specify(fragments=("and",), accepts=lambda f: scoped(f) and not isinstance(f, L.All))
+def both(a, left: L.Rows, right: L.Rows) -> L.Rows | None:
+    if left == right:
+        return None
+    if isinstance(left, L.Eq) and isinstance(right, L.Eq) and left.col == right.col:
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.And(left, right)
+
+
+@specify(fragments=("or",), accepts=simple)
+def either(a, left: L.Rows, _, right: L.Rows) -> L.Rows | None:
+    if left == right:
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.Or(left, right)
+
+
+@specify(fragments=("not",), accepts=simple)
+def negate(a, _, rows: L.Rows) -> L.Rows | None:
+    return None if isinstance(rows, L.Missing) else L.Not(rows)   # `present` says that
+
+
+@specify(fragments=("extreme:{DIR}",), role="order", accepts=scoped, superlative=True)
+def extreme(a, rows: L.Rows, col: str, direction: str) -> L.Rows | None:
+    return L.Extreme(rows, col, direction)
+
+
+@specify(fragments=("{POS}",), accepts=scoped, superlative=True)
+def position(a, rows: L.Rows, which: str) -> L.Rows | None:
+    return L.Position(rows, which)
+
+
+@specify(fragments=("{STEP}",), accepts=lambda f: not isinstance(f, (L.All, L.Neighbour)))
+def neighbour(a, rows: L.Rows, step: str) -> L.Rows | None:
+    return L.Neighbour(rows, step)
+
+
+# ── answers ───────────────────────────────────────────────────────────────────────────────────
+@specify(fragments=("values",), role="values", head=True)
+def values(a, col: str, rows: L.Rows) -> L.Answer | None:
+    return None if _filters_on(rows, col) else L.Values(col, rows)
+
+
+@specify(fragments=("distinct",), role="values", head=True)
+def distinct(a, col: str, rows: L.Rows, _) -> L.Answer | None:
+    if _filters_on(rows, col) or a.table.column(col).distinct >= max(a.table.row_count, 2):
+        return None
+    return L.Distinct(col, rows)
+
+
+# "count" twice: as the rule and as what every counting rule adds (the prior was set with both).
+@specify(fragments=("count", "count"), aggregating=True)
+def count(a, _, rows: L.Rows) -> L.Answer | None:
+    return L.Aggregate("count", None, rows)
+
+
+@specify(fragments=("count_distinct",), role="values", head=True, aggregating=True)
+def count_distinct(a, _, col: str, rows: L.Rows) -> L.Answer | None:
+    return None if _filters_on(rows, col) else L.Aggregate("count_distinct", col, rows)
+
+
+@specify(fragments=("{AGG}",), role="measure", head=True, aggregating=True)
+def aggregate(a, fn: str, col: str, rows: L.Rows) -> L.Answer | None:
+    return L.Aggregate(fn, col, rows)
+
+
+@specify(fragments=("difference", "count"), accepts=simple)
+def count_difference(a, _, left: L.Rows, right: L.Rows) -> L.Answer | None:
+    if left == right:
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.Difference(L.Aggregate("count", None, left), L.Aggregate("count", None, right))
+
+
+@specify(fragments=("difference", "{AGG}"), role="measure", accepts=simple)
+def aggregate_difference(a, fn: str, col: str, left: L.Rows, right: L.Rows) -> L.Answer | None:
+    if left == right or fn == "median":
+        return None
+    left, right = sorted((left, right), key=str)
+    return L.Difference(L.Aggregate(fn, col, left), L.Aggregate(fn, col, right))
+
+
+@specify(fragments=("difference", "max", "min"), role="measure", superlative=True,
+         fits=lambda fn1, fn2, col: (fn1, fn2) == ("max", "min"))
+def spread(a, fn1: str, fn2: str, col: str, rows: L.Rows) -> L.Answer | None:
+    if {fn1, fn2} != {"max", "min"} or fn1 != "max":
+        return None
+    return L.Difference(L.Aggregate("max", col, rows), L.Aggregate("min", col, rows))
+
+
+@specify(fragments=("which_of", "count", "dir:{DIR}"), superlative=True,
+         fits=lambda first, second, *_: _two(first, second) is not None)
+def which_of_count(a, first: tuple, second: tuple, _, direction: str) -> L.Answer | None:
+    pair = _two(first, second)
+    return pair and L.WhichOf(pair[0], pair[1], pair[2], "count", None, direction)
+
+
+@specify(fragments=("which_of", "dir:{DIR}"), role="measure", superlative=True,
+         fits=lambda first, second, col, _: _two(first, second) is not None and first[0] != col)
+def which_of_value(a, first: tuple, second: tuple, col: str, direction: str) -> L.Answer | None:
+    pair = _two(first, second)
+    if not pair or pair[0] == col:
+        return None
+    return L.WhichOf(pair[0], pair[1], pair[2], "sum", col, direction)
+
+
+@specify(fragments=("which_of", "{POS}"), superlative=True,
+         fits=lambda first, second, _: _two(first, second) is not None)
+def which_of_position(a, first: tuple, second: tuple, which: str) -> L.Answer | None:
+    pair = _two(first, second)
+    direction = "min" if which == "first" else "max"
+    return pair and L.WhichOf(pair[0], pair[1], pair[2], "min", "__row", direction)
+
+
+# In the group rules an aggregate measures groups ("group:sum"): "most tickets" is a sum there.
+@specify(fragments=("group_best", "count", "dir:{DIR}"), role="key", head=True,
+         superlative=True)
+def group_best_count(a, key: str, _, rows: L.Rows, direction: str) -> L.Answer | None:
+    return None if _filters_on(rows, key) else L.GroupBest(key, "count", None, rows, direction)
+
+
+@specify(fragments=("group_best", "group:{AGG}", "dir:{DIR}"), role="key", head=True,
+         superlative=True)
+def group_best(a, key: str, fn: str, col: str, rows: L.Rows, direction: str) -> L.Answer | None:
+    if key == col or _filters_on(rows, key):
+        return None
+    return L.GroupBest(key, fn, col, rows, direction)
+
+
+@specify(fragments=("top_n", "dir:{DIR}"), role="values", accepts=scoped, head=True,
+         superlative=True)
+def top_n(a, col: str, n: float, rows: L.Rows, by: str, direction: str) -> L.Answer | None:
+    if not float(n).is_integer() or not 2 <= n <= 100:
+        return None
+    return L.TopN(col, int(n), rows, by, direction)
+
+
+# Takes any rows (declaring `accepts` would widen its beam of sub-forms, so change candidates),
+# and refuses the picked ones itself.
+@specify(fragments=("top_n", "dir:{DIR}"), role="values", head=True, superlative=True)
+def top_values(a, col: str, n: float, rows: L.Rows, direction: str) -> L.Answer | None:
+    return top_n(a, col, n, rows, col, direction) if scoped(rows) else None
+
+
+@specify(fragments=("group_top", "count", "dir:{DIR}"), role="key", head=True,
+         superlative=True)
+def group_top_count(a, key: str, n: float, _, rows: L.Rows, direction: str) -> L.Answer | None:
+    n = _count_n(n)
+    if n is None or _filters_on(rows, key) or not scoped(rows):
+        return None
+    return L.GroupTop(key, "count", None, n, rows, direction)
+
+
+@specify(fragments=("group_top", "group:{AGG}", "dir:{DIR}"), role="key", head=True,
+         superlative=True)
+def group_top(a, key: str, n: float, fn: str, col: str, rows: L.Rows,
+              direction: str) -> L.Answer | None:
+    n = _count_n(n)
+    if n is None or key == col or _filters_on(rows, key) or not scoped(rows):
+        return None
+    return L.GroupTop(key, fn, col, n, rows, direction)
+
+
+@specify(fragments=("yes_no",), accepts=lambda f: not isinstance(f, L.All))
+def yes_no(a, _, rows: L.Rows) -> L.Answer | None:
+    return L.YesNo(rows)
+
+
+@specify(fragments=("per_group", "count"), role="key")
+def per_group_count(a, key: str, _, rows: L.Rows, __) -> L.Answer | None:
+    return None if _filters_on(rows, key) else L.GroupTable(key, "count", None, rows)
+
+
+@specify(fragments=("per_group", "group:{AGG}"), role="key")
+def per_group(a, key: str, fn: str, col: str, rows: L.Rows, _) -> L.Answer | None:
+    if key == col or _filters_on(rows, key):
+        return None
+    return L.GroupTable(key, fn, col, rows)
