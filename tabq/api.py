@@ -7,188 +7,15 @@
 
 from __future__ import annotations
 
-import math
-import time
-from dataclasses import dataclass, field
 from pathlib import Path
 
-from . import logic as L
-from .analyse import Analysis, analyse
-from .answers import Denotation
-from .derive import PAIR_BEAM, Item, derive
-from .execute import run_many
-from .features import ANSWER_FEATURES, answer_score_bound
-from .load import Table, load_table
+from .load import load_table
 from .model import Model
-from .sql import render
-from .store import load_model
+from .pipeline import OpenTable, Reading, Result
+from .store import ModelFolder
+from .teaching import current
 
-EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
-UNSURE = 0.5            # below this share of probability the top answer is flagged
-QUESTION_SECONDS = 20.0  # all the queries of one question; past it, the best found so far, flagged
-BATCH = 20              # candidates executed between two checks of whether the rest can matter
-SETTLED = 3             # distinct readings that must come out exactly as if all were executed
-MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
-
-
-@dataclass
-class Reading:
-    """One candidate: a logical form, its SQL, its English reading, its answer and score."""
-
-    form: L.Answer
-    sql: str
-    paraphrase: str
-    answer: list
-    score: float
-    features: dict[str, float]
-    error: str | None = None
-    probability: float = 0.0
-    is_table: bool = False
-    key: tuple = field(default=(), repr=False, compare=False)   # which answer it is
-
-
-@dataclass
-class Result:
-    question: str
-    readings: list[Reading]          # one per distinct answer, best first
-    candidates: list[Reading]        # every executed candidate, best first
-    notes: list[str] = field(default_factory=list)
-    complete: bool = True            # false when the time limit stopped the search early
-
-    @property
-    def best(self) -> Reading | None:
-        return self.readings[0] if self.readings else None
-
-    @property
-    def answer(self) -> list:
-        return list(self.best.answer) if self.best else []
-
-    @property
-    def sql(self) -> str | None:
-        return self.best.sql if self.best else None
-
-    @property
-    def paraphrase(self) -> str | None:
-        return self.best.paraphrase if self.best else None
-
-    @property
-    def confidence(self) -> float:
-        return self.best.probability if self.best else 0.0
-
-    @property
-    def unsure(self) -> bool:
-        return self.confidence < UNSURE or not self.complete
-
-
-class OpenTable:
-    """A loaded table and a model, ready for questions. Load once, ask many times."""
-
-    def __init__(self, table: Table, model: Model):
-        self.table, self.model = table, model
-
-    def label(self, name: str) -> str:
-        col = self.table.column(name)
-        return col.header + (f" ({col.view})" if col.view else "")
-
-    def analyse(self, question: str) -> Analysis:
-        return analyse(question, self.table)
-
-    def ask(self, question: str, execute: int = EXECUTE,
-            seconds: float = QUESTION_SECONDS, pair_beam: int = PAIR_BEAM) -> Result:
-        """Answer a question: every distinct answer, best first, with the SQL behind it.
-
-        The best `execute` candidates by the features that need no answer are run, best first
-        and in batches; the rest are skipped once they can no longer change the SETTLED best
-        distinct readings nor hold more than MASS_TOLERANCE of the probability, whatever their
-        answers (`features.answer_score_bound`). So the answer is the one running them all
-        would give under the same model. `pair_beam` widens the search of two-sided
-        conditions (teaching does, where a new word's reading may rank low before it is learned).
-        """
-        started = time.monotonic()
-        analysis = self.analyse(question)
-        items = derive(analysis, self.model, pair_beam=pair_beam)[:execute]
-        bound = answer_score_bound(analysis, self.model)
-        deadline = started + seconds
-        candidates: list[Reading] = []
-        complete = True
-        for start in range(0, len(items), BATCH):
-            if _can_skip(candidates, items[start:], bound):
-                break
-            batch = items[start:start + BATCH]
-            for item, den in zip(batch, run_many(self.table, [i.form for i in batch],
-                                                 deadline=deadline)):
-                if den is None:
-                    complete = False
-                else:
-                    candidates.append(self._reading(analysis, item, den))
-            if not complete:
-                break
-        candidates.sort(key=lambda r: -r.score)
-        readings = _distinct_answers(candidates)
-        notes = ["the question was cut to its first 2000 characters"] if analysis.truncated else []
-        if not complete:
-            notes.append(f"stopped at the {seconds:g} s limit: the best of the {len(candidates)} "
-                         f"readings checked by then, of {len(items)}")
-        return Result(question, readings, candidates, notes, complete)
-
-    def _reading(self, analysis: Analysis, item: Item, den: Denotation) -> Reading:
-        feats = item.features()
-        for fn in ANSWER_FEATURES:
-            for name, value in fn(analysis, den).items():
-                feats[name] = feats.get(name, 0.0) + value
-        score = self.model.score(feats)
-        return Reading(item.form, render(item.form), self._paraphrase(item.form),
-                       list(den.values), score, feats, den.error, is_table=den.is_table,
-                       key=_key(self.table, den))
-
-    def _paraphrase(self, form: L.Answer) -> str:
-        cache = self.table.cache.setdefault("paraphrases", {})
-        if form not in cache:
-            cache[form] = L.paraphrase(form, self.label)
-        return cache[form]
-
-
-def _key(table: Table, den: Denotation) -> tuple:
-    """Which answer a denotation is (normalising a long list costs; each is done once)."""
-    if den.error:
-        return ()
-    cache = table.cache.setdefault("keys", {})
-    if id(den) not in cache or cache[id(den)][0] is not den:
-        cache[id(den)] = (den, den.key())
-    return cache[id(den)][1]
-
-
-def _can_skip(done: list[Reading], rest: list[Item], bound: float) -> bool:
-    """Whether no candidate in `rest` can matter, whatever its answer: each one's score is at
-    most its answer-free score plus `bound`."""
-    if not done or not rest:
-        return not rest
-    readings = sorted({r.key if not r.error else ("error", r.sql): r.score for r in sorted(
-        done, key=lambda r: r.score)}.values(), reverse=True)
-    best_rest = max(i.score for i in rest) + bound + 1e-9
-    if len(readings) < SETTLED or best_rest >= readings[SETTLED - 1]:
-        return False
-    top = readings[0]
-    held = sum(math.exp(r.score - top) for r in done)
-    skipped = sum(math.exp(i.score + bound - top) for i in rest)
-    return skipped <= MASS_TOLERANCE * held
-
-
-def _distinct_answers(candidates: list[Reading]) -> list[Reading]:
-    """The best reading of each distinct answer, with the probability of that answer."""
-    if not candidates:
-        return []
-    top = max(c.score for c in candidates)
-    mass: dict[tuple, float] = {}
-    best: dict[tuple, Reading] = {}
-    for c in candidates:
-        key = c.key if not c.error else ("error", c.sql)
-        mass[key] = mass.get(key, 0.0) + math.exp(c.score - top)
-        best.setdefault(key, c)
-    total = sum(mass.values())
-    for key, reading in best.items():
-        reading.probability = mass[key] / total
-    return sorted(best.values(), key=lambda r: -r.score)
+__all__ = ["OpenTable", "Reading", "Result", "open"]
 
 
 def open(path: str | Path, model: str | Path | Model | None = None,
@@ -197,6 +24,7 @@ def open(path: str | Path, model: str | Path | Model | None = None,
 
     `model` is a model folder or a `Model`; without one, the default folder's, as `tabq ask`
     uses ($TABQ_MODEL, else the per-user folder). `Model.prior()` is the untaught model.
+    A folder whose weights file is missing is rebuilt from its log first.
     """
-    chosen = model if isinstance(model, Model) else load_model(model)   # a bad model fails first
+    chosen = model if isinstance(model, Model) else current(ModelFolder(model))  # fails first
     return OpenTable(load_table(path, table), chosen)

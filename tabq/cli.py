@@ -6,6 +6,7 @@ import argparse
 import json
 import os
 import sys
+import warnings
 
 from . import api
 from .errors import TabqError
@@ -54,6 +55,8 @@ def _parser() -> argparse.ArgumentParser:
         epilog=f"example: {EXAMPLES['teach']}")
     teach.add_argument("table", help="the table the questions are about")
     teach.add_argument("examples", help="a JSON-lines file of {\"question\", \"answer\"}")
+    teach.add_argument("--table", dest="table_name", metavar="NAME",
+                       help="which table or sheet of a SQLite or Excel file")
     teach.add_argument("--model", metavar="DIR",
                        help="the model folder (default: your per-user tabq folder)")
     _learning_options(teach)
@@ -152,20 +155,20 @@ def _no_action(parser: argparse.ArgumentParser) -> int:
 
 
 def _lexicon_export(args: argparse.Namespace) -> int:
-    from .lexicon import export
     from .store import ModelFolder
+    from .teaching import export_lexicon
     folder = ModelFolder(args.model)
-    lexicon = export(folder, args.out)
+    lexicon = export_lexicon(folder, args.out)
     print(f"wrote {len(lexicon.entries)} entries and {len(lexicon.structure)} structure weights "
           f"({lexicon.confirmations} confirmations) from {folder.path} to {args.out}")
     return 0
 
 
 def _lexicon_import(args: argparse.Namespace) -> int:
-    from .lexicon import import_file
     from .store import ModelFolder
+    from .teaching import import_lexicon
     folder = ModelFolder(args.model)
-    report = import_file(folder, args.file, args.mode)
+    report = import_lexicon(folder, args.file, args.mode)
     verb = "merged" if report.mode == "merge" else "replaced the learned weights with"
     print(f"{verb} {report.entries} weights from {args.file} into {folder.path} "
           f"(log batch {report.batch})")
@@ -173,18 +176,19 @@ def _lexicon_import(args: argparse.Namespace) -> int:
 
 
 def _lexicon_show(args: argparse.Namespace) -> int:
-    from .lexicon import as_table, from_folder, imports, matching
+    from .lexicon import as_table, imports, matching
     from .store import ModelFolder
+    from .teaching import lexicon_of
     folder = ModelFolder(args.model)
-    lexicon = from_folder(folder)
+    lexicon = lexicon_of(folder)
     print(as_table(matching(lexicon, args.word)))
     if not args.word:
         print(f"\n{lexicon.confirmations} confirmations"
               + (f", {lexicon.support_unknown} of them with unknown support"
                  if lexicon.support_unknown else ""))
         for record in imports(folder):
-            print(f"imported ({record.get('mode')}) {record.get('source')} on "
-                  f"{record.get('time')}, sha256 {str(record.get('sha256'))[:12]}")
+            print(f"imported ({record.mode}) {record.source} on {record.time}, "
+                  f"sha256 {record.sha256[:12]}")
     return 0
 
 
@@ -220,6 +224,7 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "run", None):
         parser.print_help()
         return 2
+    warnings.showwarning = _show_warning
     try:
         return args.run(args)
     except TabqError as err:
@@ -235,6 +240,11 @@ def main(argv: list[str] | None = None) -> int:
         print(f"tabq: internal error ({err.__class__.__name__}): {_one_line(str(err))}",
               file=sys.stderr)
         return 1
+
+
+def _show_warning(message, category, *_) -> None:
+    """A warning (a skipped damaged log line, say) as one line on stderr, like an error."""
+    print(f"tabq: warning: {_one_line(str(message))}", file=sys.stderr)
 
 
 def _one_line(text: str) -> str:
@@ -254,10 +264,11 @@ def _ask(args: argparse.Namespace) -> int:
 
 
 def _teach(args: argparse.Namespace) -> int:
+    from .load import load_table
     from .store import ModelFolder
     from .teaching import read_examples, teach
-    api.load_table(args.table)  # a bad table is refused before anything is logged
-    jobs = read_examples(args.examples, table=args.table)
+    load_table(args.table, args.table_name)  # a bad table is refused before any logging
+    jobs = read_examples(args.examples, table=args.table, table_name=args.table_name)
     folder = ModelFolder(args.model)
     report = teach(folder, jobs, args.objective, args.epochs, args.workers)
     print(f"taught {report.taught} confirmations ({report.reachable} with a reading that gives "
@@ -272,12 +283,13 @@ def _eval(args: argparse.Namespace) -> int:
 
     from .model import Model
     from .store import ModelFolder
-    from .teaching import evaluate, learn_from, read_examples, teach, write_predictions
+    from .teaching import current, evaluate, learn_from, read_examples, teach
+    from .teaching import write_predictions
     jobs = read_examples(args.examples)
     train_jobs = read_examples(args.train) if args.train else []
     folder = ModelFolder(args.model) if args.model else None
     # no --model: the untaught prior, never the default folder, so a figure is reproducible
-    model = folder.load() if folder else Model.prior()
+    model = current(folder) if folder else Model.prior()
     trained = None
     if train_jobs:
         start = _time.perf_counter()

@@ -28,9 +28,10 @@ from dataclasses import dataclass
 import numpy as np
 
 from .answers import matches
-from .api import OpenTable
+from .pipeline import OpenTable
 from .derive import PAIR_BEAM
 from .execute import run_on_rows
+from .load import TableRef
 from .model import Model
 from .text import STOPWORDS, stem
 
@@ -62,10 +63,12 @@ class Example:
     val: np.ndarray
     start: np.ndarray
     correct: list[bool]
+    table: TableRef | None = None   # the table searched, for the confirmation's log record
 
     @classmethod
     def of(cls, question: str, gold: list, forms: list[str], sizes: list[int],
-           features: list[dict[str, float]], correct: list[bool]) -> Example:
+           features: list[dict[str, float]], correct: list[bool],
+           table: TableRef | None = None) -> Example:
         index: dict[str, int] = {}
         idx, val, start = [], [], [0]
         for feats in features:
@@ -74,7 +77,8 @@ class Example:
                 val.append(value)
             start.append(len(idx))
         return cls(question, gold, forms, sizes, tuple(index), np.array(idx, dtype=np.int32),
-                   np.array(val, dtype=np.float64), np.array(start, dtype=np.int64), correct)
+                   np.array(val, dtype=np.float64), np.array(start, dtype=np.int64), correct,
+                   table)
 
     def features(self, i: int) -> dict[str, float]:
         """Candidate i's features by name."""
@@ -105,7 +109,8 @@ def candidates(table: OpenTable, question: str, gold: list,
     if meant is not None:
         correct = [ok and str(c.form) == meant for ok, c in zip(correct, cands)]
     return Example.of(question, list(gold), [str(c.form) for c in cands],
-                      [_size(c.form) for c in cands], [c.features for c in cands], correct)
+                      [_size(c.form) for c in cands], [c.features for c in cands], correct,
+                      table.table.reference)
 
 
 def _gives(table: OpenTable, form, rows: list[int], gold: list) -> bool:

@@ -24,7 +24,6 @@ The format is described in docs/lexicon.md, its JSON Schema in docs/lexicon.sche
 from __future__ import annotations
 
 import csv
-import datetime
 import hashlib
 import io
 import json
@@ -34,10 +33,11 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 
+from . import records
 from .analyse import question_grams
 from .errors import InputError
 from .model import Model
-from .store import ModelFolder, _atomic_write
+from .store import ModelFolder, atomic_write
 
 FORMAT = "tabq-lexicon"
 VERSION = 1
@@ -177,41 +177,27 @@ def _sorted(lexicon: Lexicon) -> Lexicon:
     return lexicon
 
 
-def since_replace(log: list[dict]) -> list[dict]:
-    """The log records that still count: those after the last import that replaced the model."""
-    last = max((i for i, r in enumerate(log)
-                if r.get("kind") == "import" and r.get("mode") == "replace"), default=-1)
-    return log[last:] if last >= 0 else log
-
-
-def is_confirmation(record: dict) -> bool:
-    return record.get("kind", "confirmation") == "confirmation"
-
-
-def _support(log: list[dict], model: Model) -> tuple[Counter, int, int]:
+def _support(log: list[records.Record], model: Model) -> tuple[Counter, int, int]:
     """Support of every feature, the confirmations counted, and how many could not be checked."""
     support: Counter = Counter()
     confirmations = unknown = 0
-    from .teaching import live      # retracted confirmations (undo in the app) back nothing
-    records = since_replace(live(log))
-    missing = [r for r in records if is_confirmation(r) and "senses" not in r]
+    counted = records.since_replace(records.live(log))   # undone confirmations back nothing
+    missing = [r for r in records.confirmations(counted) if r.senses is None]
     found = _senses_again(missing, model) if missing else {}
-    for record in records:
-        if record.get("kind") == "import":
-            support.update(record.get("support", {}))
-            confirmations += record.get("confirmations", 0)
-            unknown += record.get("support_unknown", 0)
-            continue
-        if not is_confirmation(record):
+    for record in counted:
+        if isinstance(record, records.Import):
+            support.update(record.support)
+            confirmations += record.confirmations
+            unknown += record.support_unknown
             continue
         confirmations += 1
-        fired = record.get("senses")
+        fired = record.senses
         if fired is None:
             fired = found.get(id(record))
         if fired is None:
             unknown += 1
             continue
-        _count(support, set(fired), question_grams(str(record.get("question", ""))))
+        _count(support, set(fired), question_grams(record.question))
     return support, confirmations, unknown
 
 
@@ -231,35 +217,42 @@ def _count(support: Counter, fired: set[str], grams: Iterable[str]) -> None:
             support[f"{prefix}{gram}|{meaning}"] += 1
 
 
-def _senses_again(records: list[dict], model: Model) -> dict[int, list[str]]:
+def _senses_again(old: list[records.Confirmation], model: Model) -> dict[int, list[str]]:
     """Senses of old log lines, worked out again from their table if it is there unchanged."""
-    from . import api
+    from .load import load_table
+    from .pipeline import OpenTable
     from .learn import TRAIN_EXECUTE
     from .errors import TabqError
     out: dict[int, list[str]] = {}
-    by_table: dict[str, list[dict]] = defaultdict(list)
-    for record in records:
-        by_table[str(record.get("table"))].append(record)
-    for path, group in by_table.items():
+    by_table: dict[tuple, list[records.Confirmation]] = defaultdict(list)
+    for record in old:
+        by_table[record.table.path, record.table.name].append(record)
+    for (path, name), group in by_table.items():
         try:
-            table = api.OpenTable(api.load_table(path), model)
+            table = OpenTable(load_table(path, name), model)
         except TabqError:
             continue
         for record in group:
-            if record.get("fingerprint") != table.table.fingerprint:
+            if not _same_content(record.table, table.table):
                 continue
-            if not record.get("query"):
+            if not record.query:
                 out[id(record)] = []       # no reading gave the answer: it taught nothing
                 continue
             try:
-                result = table.ask(str(record["question"]), execute=TRAIN_EXECUTE)
+                result = table.ask(record.question, execute=TRAIN_EXECUTE)
             except TabqError:
                 continue
             for cand in result.candidates:
-                if str(cand.form) == record["query"]:
+                if str(cand.form) == record.query:
                     out[id(record)] = senses(cand.features)
                     break
     return out
+
+
+def _same_content(ref, table) -> bool:
+    """Whether a logged table reference is this loaded table, unchanged. Version 1 logs hashed
+    the file alone, which equals the loader's fingerprint for one-table formats."""
+    return ref.fingerprint in (table.fingerprint, None if table.name else table.fingerprint)
 
 
 # ── writing ───────────────────────────────────────────────────────────────────────────────────
@@ -329,7 +322,7 @@ def export(folder: ModelFolder, out: str | Path) -> Lexicon:
     _check_overwrite(out)
     lexicon = from_folder(folder)
     out.parent.mkdir(parents=True, exist_ok=True)
-    _atomic_write(out, render(lexicon, kind))
+    atomic_write(out, render(lexicon, kind))
     return lexicon
 
 
@@ -577,35 +570,32 @@ def import_file(folder: ModelFolder, path: str | Path, mode: str = "merge") -> I
     if mode not in MODES:
         raise InputError(f"import mode must be one of {', '.join(MODES)}")
     lexicon, digest = read(path)
-    record = {"kind": "import", "source": str(Path(path).resolve()), "sha256": digest,
-              "mode": mode,
-              "time": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
-              "confirmations": lexicon.confirmations, "support_unknown": lexicon.support_unknown,
-              "learned": {e.feature: e.learned for e in lexicon.all()},
-              "support": {e.feature: e.support for e in lexicon.all() if e.support}}
     with folder.locked():
         log = folder.read_log()
         model = folder.load()             # a damaged model is refused before anything is written
         if mode == "merge":
-            _refuse_repeat(since_replace(log), digest, path)
-        record["batch"] = 1 + max((r.get("batch", 0) for r in log), default=0)
+            _refuse_repeat(records.since_replace(log), digest, path)
+        record = records.Import(
+            str(Path(path).resolve()), digest, mode, records.now(), lexicon.confirmations,
+            lexicon.support_unknown, {e.feature: e.learned for e in lexicon.all()},
+            {e.feature: e.support for e in lexicon.all() if e.support}, records.next_batch(log))
         model = apply_import(model, record)
         folder.append_log([record])
-        folder.save(model, batches=record["batch"])
-    return ImportReport(len(lexicon.all()), mode, record["batch"])
+        folder.save(model, batches=record.batch)
+    return ImportReport(len(lexicon.all()), mode, record.batch)
 
 
-def _refuse_repeat(log: list[dict], digest: str, path) -> None:
+def _refuse_repeat(log: list[records.Record], digest: str, path) -> None:
     for record in log:
-        if record.get("kind") == "import" and record.get("sha256") == digest:
+        if isinstance(record, records.Import) and record.sha256 == digest:
             raise InputError(f"{path}: this same file was already merged into the model (on "
-                             f"{record.get('time')}); merging it again would count it twice")
+                             f"{record.time}); merging it again would count it twice")
 
 
-def apply_import(model: Model, record: dict) -> Model:
+def apply_import(model: Model, record: records.Import) -> Model:
     """The model after an import record (used by import and by rebuilding from the log)."""
-    learned = record["learned"]
-    if record["mode"] == "replace":
+    learned = record.learned
+    if record.mode == "replace":
         out = Model.prior()
     else:
         out = Model(model.as_dict())
@@ -613,9 +603,9 @@ def apply_import(model: Model, record: dict) -> Model:
     return out
 
 
-def imports(folder: ModelFolder) -> list[dict]:
+def imports(folder: ModelFolder) -> list[records.Import]:
     """The import records of a folder's log, oldest first."""
-    return [r for r in folder.read_log() if r.get("kind") == "import"]
+    return [r for r in folder.read_log() if isinstance(r, records.Import)]
 
 
 # ── reading for people ────────────────────────────────────────────────────────────────────────

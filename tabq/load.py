@@ -72,6 +72,15 @@ class Column:
     integer: bool = False          # a number column whose values are all whole
 
 
+@dataclass(frozen=True)
+class TableRef:
+    """Which table a question was about: the file, the table or sheet in it, its content."""
+
+    path: str
+    name: str | None               # a SQLite table or a sheet; None for one-table formats
+    fingerprint: str | None        # sha256 of the file (and the name), None when unknown
+
+
 @dataclass
 class Table:
     """A loaded table: DuckDB connection holding relation TABLE, and the profile of its columns."""
@@ -84,6 +93,12 @@ class Table:
     fingerprint: str               # stable id of the content, for the model's log
     total_row: int | None = None   # ROW of a trailing "Total"-like row, if there is one
     cache: dict = field(default_factory=dict)   # answers by SQL, for the life of the table
+    name: str | None = None        # the SQLite table or sheet read; None for one-table formats
+
+    @property
+    def reference(self) -> TableRef:
+        """What a confirmation records so that it can be asked of this same table again."""
+        return TableRef(str(self.path), self.name, self.fingerprint)
 
     def column(self, name: str) -> Column:
         by_name = self.cache.get("columns")
@@ -108,6 +123,32 @@ def load_table(path: str | Path, table: str | None = None) -> Table:
                              f"(memory limit {memory_limit() >> 20} MB)") from exc
     except Exception as exc:   # a person gets one line, never a traceback
         raise TableFileError(f"{_show(path)}: cannot read it ({_one_line(exc)})") from exc
+
+
+def table_names(path: str | Path) -> list[str]:
+    """The tables of a SQLite file or the sheets of a workbook, in the order `load_table`
+    offers them; an empty list for formats that hold one table."""
+    path = Path(path)
+    head, _ = _read_bytes(path)
+    kind = _kind_of(path, head)
+    try:
+        if kind == "sqlite":
+            with _sqlite_open(path) as db:
+                listed = db.execute("SELECT name FROM sqlite_master WHERE type = 'table' AND "
+                                    "name NOT LIKE 'sqlite_%' ORDER BY name").fetchall()
+            return [n for (n,) in listed]
+        if kind == "xlsx":
+            import openpyxl
+            book = openpyxl.load_workbook(path, read_only=True)
+            try:
+                return list(book.sheetnames)
+            finally:
+                book.close()
+    except TabqError:
+        raise
+    except Exception as exc:   # a damaged file: one line, as load_table says it
+        raise TableFileError(f"{_show(path)}: cannot list its tables ({_one_line(exc)})") from exc
+    return []
 
 
 # ---------------------------------------------------------------- the stage, start to end
@@ -136,7 +177,8 @@ def _load(path: Path, table: str | None) -> Table:
     if source.table is not None:
         digest.update(b"\0" + source.table.encode())
     return Table(con=con, columns=columns, row_count=row_count, path=path.absolute(),
-                 title=source.title, fingerprint=digest.hexdigest(), total_row=total_row)
+                 title=source.title, fingerprint=digest.hexdigest(), total_row=total_row,
+                 name=source.table)
 
 
 def _connect() -> _Con:

@@ -1,11 +1,11 @@
-"""How an answer is shown: a `api.Result` as text for a person or as JSON for a program.
+"""How an answer is shown: a `pipeline.Result` as text for a person or as JSON for a program.
 
 Used by `tabq ask` and `tabq demo`; kept apart from cli.py so that nothing imports the CLI back.
 """
 
 from __future__ import annotations
 
-from .api import Reading, Result
+from .pipeline import Reading, Result
 
 
 def as_json(result: Result, top: int) -> dict:

@@ -3,14 +3,12 @@
     weights.json    {"format": "tabq-weights", "version": 1, "learned": {...}, ...} — what
                     teaching moved, as offsets from the prior (so a better prior in a later
                     tabq still reaches a taught model)
-    log.jsonl       one confirmation a line, append-only: question, table, fingerprint,
-                    answer, chosen query, time, batch
+    log.jsonl       what was taught, one record a line, append-only (records.py): the
+                    model itself, of which weights.json is a cache
     lock            held (flock) while a process reads, learns and writes
 
 Weights are written to a temporary file and renamed over the old one, so a kill at any moment
-leaves either the old or the new weights. A log line is written whole with one write and synced
-before anyone is told it was saved; a torn last line (a kill mid-write) is ignored on reading,
-a damaged line anywhere else is an error — the log is never rewritten silently.
+leaves either the old or the new weights.
 """
 
 from __future__ import annotations
@@ -25,6 +23,7 @@ from pathlib import Path
 
 import platformdirs
 
+from . import records
 from .errors import ModelError
 from .model import FORMAT_VERSION, Model
 
@@ -74,56 +73,28 @@ class ModelFolder:
                 isinstance(k, str) and isinstance(v, (int, float)) and not isinstance(v, bool)
                 for k, v in learned.items()):
             raise ModelError(f"{path}: learned weights must map feature names to numbers")
-        model = Model.prior()
-        model.update(learned)
-        return model
+        return _from_learned(learned)
 
     def save(self, model: Model, **meta) -> None:
         """Write the weights atomically (temporary file, fsync, rename)."""
         self.path.mkdir(parents=True, exist_ok=True)
-        prior = Model.prior()
-        learned = {k: round(v - prior.weight(k), 9) for k, v in sorted(model.items())}
-        data = {"format": FORMAT, "version": FORMAT_VERSION, **meta,
-                "learned": {k: v for k, v in learned.items() if v != 0.0}}
-        _atomic_write(self.path / WEIGHTS, json.dumps(data, ensure_ascii=False, indent=0))
+        data = {"format": FORMAT, "version": FORMAT_VERSION, **meta, "learned": _learned(model)}
+        atomic_write(self.path / WEIGHTS, json.dumps(data, ensure_ascii=False, indent=0))
 
-    # ── log ────────────────────────────────────────────────────────────────────────────────
-    def read_log(self) -> list[dict]:
-        path = self.path / LOG
-        if not path.exists():
-            return []
-        try:
-            lines = path.read_text(encoding="utf-8").split("\n")
-        except (OSError, UnicodeDecodeError) as err:
-            raise ModelError(f"{path}: the log cannot be read ({err.__class__.__name__})") from err
-        records = []
-        for number, line in enumerate(lines, 1):
-            if not line.strip():
-                continue
-            try:
-                record = json.loads(line)
-            except json.JSONDecodeError:
-                if number == len(lines):   # torn last line: a write that never completed
-                    break
-                raise ModelError(f"{path}: line {number} is damaged; the log was left as it is")
-            if not isinstance(record, dict):
-                raise ModelError(f"{path}: line {number} is not a confirmation")
-            records.append(record)
-        return records
+    def has_weights(self) -> bool:
+        return (self.path / WEIGHTS).exists()
 
-    def append_log(self, records: list[dict]) -> None:
-        """Add confirmations to the log: one write, then fsync, before returning."""
-        if not records:
-            return
-        self.path.mkdir(parents=True, exist_ok=True)
-        text = "".join(json.dumps(r, ensure_ascii=False) + "\n" for r in records)
-        path = self.path / LOG
-        with open(path, "ab") as f:
-            if f.tell() and not _ends_with_newline(path):
-                f.write(b"\n")          # never glue a record to a torn line
-            f.write(text.encode("utf-8"))
-            f.flush()
-            os.fsync(f.fileno())
+    def has_log(self) -> bool:
+        return (self.path / LOG).exists()
+
+    # ── log ──────────────────────────────────────────────────────────────────────────────
+    def read_log(self) -> list[records.Record]:
+        """Every record of the folder's log, oldest first (see records.py)."""
+        return records.read(self.path / LOG)
+
+    def append_log(self, new: list[records.Record]) -> None:
+        """Add records to the log, synced to disk before returning."""
+        records.append(self.path / LOG, new)
 
     # ── lock ───────────────────────────────────────────────────────────────────────────────
     @contextlib.contextmanager
@@ -143,13 +114,26 @@ class ModelFolder:
                 fcntl.flock(handle, fcntl.LOCK_UN)
 
 
-def _ends_with_newline(path: Path) -> bool:
-    with open(path, "rb") as f:
-        f.seek(-1, os.SEEK_END)
-        return f.read(1) == b"\n"
+def _learned(model: Model) -> dict[str, float]:
+    """What a weights file keeps of a model: its offsets from the prior, to 9 decimals."""
+    prior = Model.prior()
+    learned = {k: round(v - prior.weight(k), 9) for k, v in sorted(model.items())}
+    return {k: v for k, v in learned.items() if v != 0.0}
 
 
-def _atomic_write(path: Path, text: str) -> None:
+def _from_learned(learned: dict[str, float]) -> Model:
+    model = Model.prior()
+    model.update(learned)
+    return model
+
+
+def as_saved(model: Model) -> Model:
+    """The model as saving and loading it would give it back (offsets rounded): rebuilding
+    from the log steps through these, so it reproduces the saved weights exactly."""
+    return _from_learned(_learned(model))
+
+
+def atomic_write(path: Path, text: str) -> None:
     fd, tmp = tempfile.mkstemp(prefix=".tmp-", dir=path.parent)
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as f:
@@ -161,9 +145,3 @@ def _atomic_write(path: Path, text: str) -> None:
         with contextlib.suppress(OSError):
             os.unlink(tmp)
         raise
-
-
-def load_model(folder: str | Path | None = None) -> Model:
-    """The model a question is asked with: the folder's, or without one the default folder's
-    (`default_folder`); the prior when nothing was learned there."""
-    return ModelFolder(folder).load()

@@ -68,7 +68,7 @@ def test_teaching_killed_at_random_moments_loses_nothing_it_reported(tmp_path):
         reported += told.decode().split() + _reported(read_fd)
         folder = ModelFolder(models)
         folder.load()                              # loads: old weights or new, never torn
-        logged = {r["id"] for r in folder.read_log()}
+        logged = {r.id for r in folder.read_log()}
         same_folder = tuple(f"r{r}-" for r in range(round_ // 4 * 4, round_ + 1))
         assert {r for r in reported if r.startswith(same_folder)} <= logged   # none lost since
         with folder.locked():                      # a killed teacher left no lock behind
@@ -95,6 +95,6 @@ def test_two_teachers_of_one_model_lose_nothing(tmp_path):
     folder = ModelFolder(models)
     log = folder.read_log()
     assert sorted(reported) == sorted(f"{w}{n}" for w in "xy" for n in range(3))
-    assert sorted(r["id"] for r in log) == sorted(reported)
-    assert sorted({r["batch"] for r in log}) == list(range(1, 7))   # six steps, one at a time
+    assert sorted(r.id for r in log) == sorted(reported)
+    assert sorted({r.batch for r in log}) == list(range(1, 7))   # six steps, one at a time
     folder.load()

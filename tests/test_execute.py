@@ -17,7 +17,7 @@ import pandas as pd
 import pytest
 
 import tabq
-from tabq import api, execute
+from tabq import execute, pipeline
 from tabq import logic as L
 from tabq.analyse import analyse
 from tabq.answers import Denotation, matches
@@ -73,28 +73,28 @@ def test_fused_answers_equal_each_query_alone(penguins_csv, demo_csv):
     assert compared > 1500 and fused_groups > 500
 
 
-def _ask_everything(table: api.OpenTable, question: str) -> api.Result:
-    original = api._can_skip
-    api._can_skip = lambda done, rest, bound: not rest
+def _ask_everything(table: pipeline.OpenTable, question: str) -> pipeline.Result:
+    original = pipeline._can_skip
+    pipeline._can_skip = lambda done, rest, bound: not rest
     try:
         return table.ask(question)
     finally:
-        api._can_skip = original
+        pipeline._can_skip = original
 
 
 @pytest.mark.parametrize("sharpness", [1.0, 4.0])
 def test_pruned_ask_gives_the_answer_of_executing_everything(penguins_csv, demo_csv, sharpness):
     model = Model({k: v * sharpness for k, v in Model.prior().items()})
-    opened: dict[Path, api.OpenTable] = {}
+    opened: dict[Path, pipeline.OpenTable] = {}
     pruned = 0
     for path, question in cases(penguins_csv, demo_csv, 4):
         table = opened.setdefault(path, tabq.open(path, model=model))
         fast, full = table.ask(question), _ask_everything(table, question)
         pruned += len(fast.candidates) < len(full.candidates)
-        settled = api.SETTLED
+        settled = pipeline.SETTLED
         assert [(r.sql, r.answer) for r in fast.readings[:settled]] == [
             (r.sql, r.answer) for r in full.readings[:settled]], question
-        assert abs(fast.confidence - full.confidence) <= api.MASS_TOLERANCE + 1e-9, question
+        assert abs(fast.confidence - full.confidence) <= pipeline.MASS_TOLERANCE + 1e-9, question
     if sharpness > 1:
         assert pruned >= 3   # the test must see pruning happen, not only full runs
 

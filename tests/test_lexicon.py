@@ -176,9 +176,9 @@ def test_merge_adds_weights_and_keeps_where_they_came_from(shop, tmp_path):
     twice = target.load().weight(entry.feature)
     prior = Model.prior().weight(entry.feature)
     assert abs((twice - prior) - 2 * (once - prior)) < 1e-6
-    records = [r for r in target.read_log() if r.get("kind") == "import"]
-    assert [Path(r["source"]).name for r in records] == ["lex.json", "other.json"]
-    assert records[0]["sha256"] == hashlib.sha256(path.read_bytes()).hexdigest()
+    records = lexicon.imports(target)
+    assert [Path(r.source).name for r in records] == ["lex.json", "other.json"]
+    assert records[0].sha256 == hashlib.sha256(path.read_bytes()).hexdigest()
     merged = lexicon.from_folder(target)
     assert merged.confirmations == 9
     assert next(e for e in merged.entries if e.key == entry.key).support == 2 * entry.support
@@ -225,19 +225,27 @@ def test_support_of_old_log_lines_is_worked_out_again_or_counted_unknown(shop, t
     old = ModelFolder(tmp_path / "old")
     shutil.copytree(folder.path, old.path)
     records = old.read_log()
-    (old.path / LOG).write_text("".join(
-        json.dumps({k: v for k, v in r.items() if k != "senses"}) + "\n" for r in records))
+    (old.path / LOG).write_text("".join(_version_1_line(r) for r in records))
     again = lexicon.from_folder(old)
     assert [(e.key, e.support) for e in again.all()] == [(e.key, e.support)
                                                          for e in expected.all()]
     assert again.support_unknown == 0
     # the table is gone: the weights are all there, their support is unknown
-    moved = [dict(r, table=str(tmp_path / "gone.csv")) for r in records]
     (old.path / LOG).write_text("".join(
-        json.dumps({k: v for k, v in r.items() if k != "senses"}) + "\n" for r in moved))
+        _version_1_line(r, str(tmp_path / "gone.csv")) for r in records))
     gone = lexicon.from_folder(old)
     assert [e.key for e in gone.all()] == [e.key for e in expected.all()]
     assert gone.support_unknown == 4 and all(e.support == 0 for e in gone.all())
+
+
+def _version_1_line(record, table: str | None = None) -> str:
+    """A confirmation as tabq wrote it before typed records: no kind, the table a path with
+    the file's sha256 beside it, and no senses."""
+    return json.dumps({"id": record.id, "question": record.question,
+                       "table": table or record.table.path,
+                       "fingerprint": record.table.fingerprint, "answer": record.answer,
+                       "query": record.query, "time": record.time,
+                       "batch": record.batch}) + "\n"
 
 
 def test_question_grams_are_the_grams_analyse_uses(shop):

@@ -6,11 +6,14 @@ import os
 import random
 import signal
 import time
+import warnings
 
 import pytest
 
 from tabq.errors import ModelError
+from tabq.load import TableRef
 from tabq.model import Model
+from tabq.records import Confirmation, LogWarning
 from tabq.store import LOG, WEIGHTS, ModelFolder
 
 FORK = multiprocessing.get_context("fork")
@@ -89,38 +92,75 @@ def test_a_foreign_folder_is_not_taken_over(tmp_path):
 
 
 # ── (c) the log ───────────────────────────────────────────────────────────────────────────────
+def _record(n, question: str = "q", **more) -> Confirmation:
+    """A confirmation numbered n (its id), as the log keeps them."""
+    return Confirmation(str(n), question, TableRef("/data/t.csv", None, None), [n], **more)
+
+
+def _numbers(log) -> list[int]:
+    return [int(r.id) for r in log]
+
+
 def test_log_round_trip_in_order(tmp_path):
     folder = ModelFolder(tmp_path)
-    folder.append_log([{"n": 1}, {"n": 2, "q": "é ✓"}])
+    folder.append_log([_record(1), _record(2, "é ✓")])
     folder.append_log([])
-    folder.append_log([{"n": 3}])
-    assert folder.read_log() == [{"n": 1}, {"n": 2, "q": "é ✓"}, {"n": 3}]
+    folder.append_log([_record(3)])
+    assert folder.read_log() == [_record(1), _record(2, "é ✓"), _record(3)]
 
 
 def test_a_torn_last_line_is_ignored_and_left_as_it_is(tmp_path):
     folder = ModelFolder(tmp_path)
-    folder.append_log([{"n": 1}, {"n": 2}])
+    folder.append_log([_record(1), _record(2)])
     with open(tmp_path / LOG, "ab") as f:
-        f.write(b'{"n": 3, "quest')
+        f.write(b'{"kind": "confirmation", "id": "3", "quest')
     before = (tmp_path / LOG).read_bytes()
-    assert folder.read_log() == [{"n": 1}, {"n": 2}]
+    with pytest.warns(LogWarning, match="torn"):
+        assert _numbers(folder.read_log()) == [1, 2]
     assert (tmp_path / LOG).read_bytes() == before
 
 
-def test_a_damaged_middle_line_raises_model_error_naming_the_line(tmp_path):
+def test_a_damaged_middle_line_is_skipped_with_a_warning_naming_it_and_kept(tmp_path):
     path = tmp_path / LOG
-    content = b'{"n": 1}\n{"n": 2, oops\n{"n": 3}\n'
+    folder = ModelFolder(tmp_path)
+    folder.append_log([_record(1)])
+    content = path.read_bytes() + b'{"n": 2, oops\n'
     path.write_bytes(content)
-    with pytest.raises(ModelError) as info:
-        ModelFolder(tmp_path).read_log()
-    assert "line 2" in str(info.value) and "\n" not in str(info.value)
-    assert path.read_bytes() == content
+    folder.append_log([_record(3)])
+    with pytest.warns(LogWarning, match="line 3") as caught:
+        assert _numbers(folder.read_log()) == [1, 3]
+    assert all("\n" not in str(w.message) for w in caught)
+    assert path.read_bytes().startswith(content)
 
 
-def test_a_log_line_that_is_not_an_object_is_an_error(tmp_path):
-    (tmp_path / LOG).write_text('{"n": 1}\n[1, 2]\n')
-    with pytest.raises(ModelError):
+def test_a_log_line_that_is_not_an_object_is_skipped_with_a_warning(tmp_path):
+    (tmp_path / LOG).write_text('{"question": "q", "answer": [1], "table": "t.csv"}\n[1, 2]\n')
+    with pytest.warns(LogWarning, match="line 2"):
+        assert len(ModelFolder(tmp_path).read_log()) == 1
+
+
+def test_a_torn_write_does_not_stop_later_teaching(tmp_path):
+    """A write cut short (disk full, a kill mid-append): the next append cuts the torn tail off
+    and every later read sees every complete record, without a warning."""
+    path = tmp_path / LOG
+    folder = ModelFolder(tmp_path)
+    folder.append_log([_record(1)])
+    with open(path, "ab") as f:
+        f.write(b'{"kind": "confirmation", "id": "2", "quest')
+    with pytest.warns(LogWarning, match="cut off"):
+        folder.append_log([_record(3)])
+    folder.append_log([_record(4)])
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        assert _numbers(folder.read_log()) == [1, 3, 4]
+
+
+def test_a_log_from_a_newer_tabq_is_refused_and_left_as_it_is(tmp_path):
+    content = b'{"kind": "log", "format": "tabq-log", "version": 99}\n'
+    (tmp_path / LOG).write_bytes(content)
+    with pytest.raises(ModelError, match="newer tabq"):
         ModelFolder(tmp_path).read_log()
+    assert (tmp_path / LOG).read_bytes() == content
 
 
 # ── (d) two teachers at once ──────────────────────────────────────────────────────────────────
@@ -130,7 +170,8 @@ def _teacher(path, who, count, start):
     for n in range(count):
         with folder.locked():
             log = folder.read_log()
-            folder.append_log([{"who": who, "n": n, "seen": len(log)}])
+            folder.append_log([Confirmation(str(n), who, TableRef("t.csv", None, None),
+                                            [len(log)])])
             model = folder.load()
             model.update({f"feat:{who}": 0.01})
             folder.save(model, batches=len(log) + 1)
@@ -148,10 +189,10 @@ def test_two_processes_teaching_at_once_lose_nothing(tmp_path):
         assert p.exitcode == 0
     log = ModelFolder(tmp_path).read_log()
     assert len(log) == 100
-    assert sorted((r["who"], r["n"]) for r in log) == sorted(
+    assert sorted((r.question, int(r.id)) for r in log) == sorted(
         (w, n) for w in "xy" for n in range(50))
     # under the lock each teacher saw every record written before it
-    assert sorted(r["seen"] for r in log) == list(range(100))
+    assert sorted(r.answer[0] for r in log) == list(range(100))
     model = ModelFolder(tmp_path).load()
     assert model.weight("feat:x") == pytest.approx(0.5)
     assert model.weight("feat:y") == pytest.approx(0.5)
@@ -168,7 +209,7 @@ def _saver(path, model, write_fd):
     folder = ModelFolder(path)
     n = 0
     while True:
-        folder.append_log([{"n": n}])
+        folder.append_log([_record(n)])
         os.write(write_fd, f"{n}\n".encode())     # only after append_log returned (fsynced)
         model.update({"big:0": 1.0})
         folder.save(model, batches=n)
@@ -209,7 +250,7 @@ def test_a_kill_at_any_moment_leaves_loadable_weights_and_every_acknowledged_rec
         assert "op:count" in loaded.index
         if (tmp_path / "weights.json").exists():
             assert "big:7999" in loaded.index
-        written = [r["n"] for r in folder.read_log()]
+        written = _numbers(folder.read_log())
         assert set(told) <= set(written)
         acknowledged += told
     assert (tmp_path / "weights.json").exists(), "no save ever completed: the test proves nothing"

@@ -85,9 +85,9 @@ def test_the_word_taught_on_one_table_helps_on_another_with_the_same_columns(tab
 def test_teaching_logs_every_confirmation(taught):
     folder, _ = taught
     log = folder.read_log()
-    assert [r["question"] for r in log] == TAUGHT
-    assert all(r["batch"] == 1 and r["answer"] == [4] and r["fingerprint"] for r in log)
-    assert all("refunded" in (r["query"] or "") for r in log)
+    assert [r.question for r in log] == TAUGHT
+    assert all(r.batch == 1 and r.answer == [4] and r.table.fingerprint for r in log)
+    assert all("refunded" in (r.query or "") for r in log)
 
 
 def test_rebuild_from_the_log_gives_the_saved_models_answers(tables, taught):
@@ -176,31 +176,31 @@ def test_a_cache_of_searches_gives_the_same_model_without_searching_again(tables
     from tabq.model import Model
     first, _ = tables
     jobs = [Job(str(i), q, str(first), [4]) for i, q in enumerate(TAUGHT)]
-    cache: dict = {}
-    searched, _, _ = teaching.learn_from(Model.prior(), jobs, workers=1, cache=cache)
-    assert len(cache) == len(jobs)
+    searches = teaching.Searches()
+    searched, _, _ = teaching.learn_from(Model.prior(), jobs, workers=1, searches=searches)
+    assert len(searches.found) == len(jobs)
 
     def no_search(*args, **kwargs):
         raise AssertionError("searched again")
-    monkeypatch.setattr(teaching, "run_parallel", no_search)
-    cached, report, _ = teaching.learn_from(Model.prior(), jobs, workers=1, cache=cache)
+    monkeypatch.setattr(teaching.learning, "run_parallel", no_search)
+    cached, report, _ = teaching.learn_from(Model.prior(), jobs, workers=1, searches=searches)
     assert report.taught == len(jobs)
     assert cached.as_dict() == searched.as_dict()
 
 
 def test_a_retracted_confirmation_stays_in_the_log_and_stops_counting(tables, tmp_path):
-    from tabq.teaching import live, retract
+    from tabq.records import live
+    from tabq.teaching import retract
     first, _ = tables
     folder = ModelFolder(tmp_path / "m")
     before = folder.load()
-    report = teach(folder, [Job("r1", TAUGHT[0], str(first), [4], extra={"strength": 2.0})],
-                   workers=1)
+    report = teach(folder, [Job("r1", TAUGHT[0], str(first), [4], strength=2.0)], workers=1)
     assert tabq.open(first, model=folder.path).ask(TAUGHT[0]).answer == [4]
     assert tabq.open(first, model=before).ask(TAUGHT[0]).answer != [4]
     saved = retract(folder, report.records[0], before=before)
     log = folder.read_log()
-    assert log[0]["question"] == TAUGHT[0]                       # nothing is lost
-    assert log[1]["retract"] == "r1" and log[1]["of_batch"] == 1 and log[1]["batch"] == 2
+    assert log[0].question == TAUGHT[0]                          # nothing is lost
+    assert log[1].of_id == "r1" and log[1].of_batch == 1 and log[1].batch == 2
     assert live(log) == []
     assert folder.load().as_dict() == saved.as_dict() == before.as_dict()
     assert rebuild(folder, workers=1).as_dict() == before.as_dict()

@@ -7,6 +7,7 @@ import json
 import pandas as pd
 import pytest
 
+from tabq.store import ModelFolder
 from tabq.ui.app import TabqApp
 from tabq.ui.chart import bar_chart, bar_rows
 from tabq.ui.session import Session, differing_rows, parse_answer
@@ -34,9 +35,8 @@ async def _ask(app, pilot, question: str) -> None:
                  and app.result.question == question)
 
 
-def _log(folder) -> list[dict]:
-    path = folder / "log.jsonl"
-    return [json.loads(line) for line in path.read_text().splitlines()] if path.exists() else []
+def _log(folder) -> list:
+    return ModelFolder(folder).read_log()
 
 
 def test_the_question_box_starts_focused_and_enter_asks(penguins_csv, tmp_path):
@@ -77,8 +77,8 @@ def test_confirm_logs_and_reranks_then_undo_takes_it_back(demo_csv, tmp_path):
             await pilot.press("y")
             await _until(pilot, lambda: app.result is not untaught and len(_log(folder)) == 1)
             record = _log(folder)[0]
-            assert (record["question"], record["answer"]) == (NO_SHOWS, [10])
-            assert record["query"] is not None
+            assert (record.question, record.answer) == (NO_SHOWS, [10])
+            assert record.query is not None
             await _until(pilot, lambda: app.result.question == NO_SHOWS
                          and app.result is not untaught)
             taught = app.result
@@ -87,7 +87,7 @@ def test_confirm_logs_and_reranks_then_undo_takes_it_back(demo_csv, tmp_path):
             await _until(pilot, lambda: app.result is not taught and len(_log(folder)) == 2)
             await _until(pilot, lambda: app.result is not taught)
             retraction = _log(folder)[1]
-            assert retraction["retract"] == record["id"]
+            assert retraction.of_id == record.id
             assert app.result.answer == [240]         # back to the untaught ranking
             assert len(_log(folder)) == 2             # nothing removed from the log
     asyncio.run(run())
@@ -110,8 +110,8 @@ def test_none_of_these_searches_for_the_typed_answer_and_offers_the_readings(dem
             await pilot.press(str(cancelled + 1))
             await _until(pilot, lambda: len(_log(folder)) == 1)
             record = _log(folder)[0]
-            assert record["answer"] == [10] and record["strength"] == 2.0
-            assert "Cancelled" in record["query"]
+            assert record.answer == [10] and record.strength == 2.0
+            assert "Cancelled" in record.query
             await _until(pilot, lambda: app.result.answer == [10]
                          and "Cancelled" in app.result.sql, 90)
     asyncio.run(run())

@@ -17,11 +17,13 @@ from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.widgets import DataTable, Footer, Input, Static, TabbedContent, TabPane
 
-from .. import api
+from .. import pipeline
 from ..errors import TabqError
+from ..load import table_names
 from .learned import entries
 from .session import Comparison, Session, parse_answer, preview
-from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, answer_text
+from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, TablePicker
+from .widgets import answer_text
 
 
 class TabqApp(App):
@@ -44,8 +46,9 @@ class TabqApp(App):
         self.source = (path, model, table)
         self.session: Session | None = None
         self.loaded = threading.Event()
-        self.result: api.Result | None = None
-        self.alikes: list[list[api.Reading]] = []
+        self.not_open: str | None = None   # why no table is open, once loading has stopped
+        self.result: pipeline.Result | None = None
+        self.alikes: list[list[pipeline.Reading]] = []
         self.asked = 0            # number of the latest question; older results are dropped
 
     # ── layout ─────────────────────────────────────────────────────────────────────────────
@@ -99,9 +102,15 @@ class TabqApp(App):
     @work(thread=True, group="load")
     def load(self) -> None:
         path, model, table = self.source
+        self.not_open = None
         try:
+            if table is None and len(names := table_names(path)) > 1:
+                self.not_open = "Choose a table first."
+                self.call_from_thread(self._choose_table, names)
+                return
             session = Session(path, model, table)
         except Exception as err:       # bad table or model: shown, and the app stays up
+            self.not_open = f"No table is open ({Path(path).name} could not be loaded)."
             self.call_from_thread(self.fail, err)
             self.call_from_thread(self._bar, f"{Path(path).name}  (not loaded)")
             return
@@ -113,13 +122,31 @@ class TabqApp(App):
         except Exception as err:
             self.call_from_thread(self.fail, err)
 
+    def _choose_table(self, names: list[str]) -> None:
+        """Several tables or sheets and none named: ask which, then load it."""
+        path = self.source[0]
+        self._bar(f"{Path(path).name}  (choose a table)")
+
+        def chosen(name: str | None) -> None:
+            if name is None:
+                self.say(f"{Path(path).name} holds several tables: choose one to ask about "
+                         "(or start with --table NAME).", "warn")
+                self.call_later(self._choose_table, names)
+                return
+            self.source = (path, self.source[1], name)
+            self._bar(f"{Path(path).name}  loading {name}…")
+            self.load()
+
+        self.push_screen(TablePicker(Path(path).name, names), chosen)
+
     def _bar(self, text: str) -> None:
         self._q("#bar", Static).update(Text("tabq", style="bold") + Text(f"  {text}"))
 
     def _loaded(self) -> None:
         s = self.session
         t = s.open.table
-        self._bar(f"{Path(t.path).name}  ·  {t.row_count} rows  ·  model {s.folder.path}")
+        where = Path(t.path).name + (f" · {t.name}" if t.name else "")
+        self._bar(f"{where}  ·  {t.row_count} rows  ·  model {s.folder.path}")
         if not self.result:
             self.say("Type a question and press enter.")
         self._fill_rows()
@@ -152,6 +179,9 @@ class TabqApp(App):
         if not question:
             self.say("Type a question first.", "warn")
             return
+        if self.session is None and self.not_open:
+            self.say(self.not_open, "warn")
+            return
         self.asked += 1
         self.say(f"asking: {question}")
         self.ask(question, self.asked)
@@ -171,7 +201,7 @@ class TabqApp(App):
             self.fail(err)
             self._refresh_history()
 
-    def show(self, result: api.Result, number: int, note: str = "") -> None:
+    def show(self, result: pipeline.Result, number: int, note: str = "") -> None:
         """Show a result, unless a newer question was asked since (then it is dropped)."""
         if number != self.asked:
             return
@@ -223,10 +253,9 @@ class TabqApp(App):
             self.compare(self.result.question, self.alikes[event.index])
 
     @work(thread=True, group="teach")
-    def teach(self, question: str, answer: list, kind: str = "confirm",
-              extra: dict | None = None) -> None:
+    def teach(self, question: str, answer: list, kind: str = "confirm") -> None:
         try:
-            taught = self.session.confirm(question, answer, kind, extra)
+            taught = self.session.confirm(question, answer, kind)
         except Exception as err:
             self.call_from_thread(self.fail, err)
             return
@@ -266,10 +295,10 @@ class TabqApp(App):
         self.teach(question, hits[0].answer, "typed")
 
     @work(thread=True, group="teach")
-    def compare(self, question: str, readings: list[api.Reading]) -> None:
+    def compare(self, question: str, readings: list[pipeline.Reading]) -> None:
         self._offer_pick(question, readings)
 
-    def _offer_pick(self, question: str, readings: list[api.Reading]) -> None:
+    def _offer_pick(self, question: str, readings: list[pipeline.Reading]) -> None:
         """(In a worker thread.) Compare the readings, then ask the analyst to pick one."""
         try:
             comparison = self.session.compare(readings)

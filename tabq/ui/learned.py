@@ -10,10 +10,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..analyse import _grams
+from ..analyse import question_grams
 from ..model import Model
-from ..teaching import live
-from ..text import read_question
+from ..records import confirmations, live
 
 PREFIXES = ("lex:", "lexcol:", "lexval:")
 SHOWN = 0.01             # learned changes smaller than this are noise, not meaning
@@ -47,7 +46,7 @@ def meaning(feature: str) -> tuple[str, str] | None:
 def entries(model: Model, log: list[dict]) -> list[Entry]:
     """Every learned lexical weight, largest change first."""
     prior = Model.prior()
-    grams = [set(_grams(read_question(r["question"]))) for r in live(log) if "question" in r]
+    grams = [set(question_grams(r.question)) for r in confirmations(live(log))]
     out = []
     for name, weight in model.items():
         read = meaning(name)

@@ -22,13 +22,12 @@ from .. import api
 from .. import logic as L
 from ..answers import Denotation, matches
 from ..execute import run_on_rows, run_sql
-from ..learn import TEACH_PAIR_BEAM, TRAIN_EXECUTE, Example, candidates
 from ..load import ROW, TABLE
 from ..model import Model
+from ..records import Confirmation
 from ..sql import condition
 from ..store import ModelFolder
-from ..teaching import REPLAY, Job, example_key, learn_from, live, retract, teach
-from ..teaching import _job_of as job_of_record
+from ..teaching import Job, Searches, current, retract, teach, warm
 
 PICK_STRENGTH = 2.0      # a reading picked among look-alikes says more than a plain confirmation
 WIDE_EXECUTE = 300       # candidates executed when a typed answer is among none of the shown
@@ -44,7 +43,7 @@ class Taught:
     kind: str                     # "confirm", "typed" or "pick"
     question: str
     answer: list
-    record: dict
+    record: Confirmation
     before: Model
     seconds: float
     reachable: bool
@@ -77,11 +76,11 @@ class Session:
     def __init__(self, path: str | Path, model: str | Path | None = None,
                  table: str | None = None):
         self.folder = ModelFolder(model)
-        self.open = api.open(path, model=self.folder.load(), table=table)
+        self.open = api.open(path, model=current(self.folder), table=table)
         self.path = str(Path(path).resolve())
         self.lock = threading.RLock()          # the table's DuckDB connection
         self.teaching = threading.Lock()       # the search cache and the model folder
-        self.cache: dict[tuple, Example] = {}
+        self.searches = Searches()
         self.taught: list[Taught] = []
         self.history: list[Event] = []
 
@@ -131,19 +130,17 @@ class Session:
 
     # ── teaching ───────────────────────────────────────────────────────────────────────────
     def confirm(self, question: str, answer: list, kind: str = "confirm",
-                extra: dict | None = None) -> Taught:
-        """Teach one confirmation now: the model folder learns it, logs it, saves."""
+                **hints) -> Taught:
+        """Teach one confirmation now: the model folder learns it, logs it, saves. `hints`
+        are the pick's extra `Job` fields (strength, rows, rows_answer, meant)."""
         start = time.perf_counter()
         job = Job(f"ui-{uuid.uuid4().hex[:10]}", question, self.path, _plain(answer),
-                  extra=dict(extra or {}))
+                  table_name=self.open.table.name, **hints)
         with self.teaching:
-            with self.lock:
-                # searched on the table already open (a worker would load it again)
-                self.cache[example_key(job, TEACH_PAIR_BEAM)] = candidates(
-                    self.open, question, job.answer, TRAIN_EXECUTE, job.extra.get("rows"),
-                    job.extra.get("rows_answer"), job.extra.get("meant"), TEACH_PAIR_BEAM)
+            with self.lock:   # searched on the table already open (a worker would load it again)
+                self.searches.search_here(self.open, job)
             before = self.folder.load()
-            report = teach(self.folder, [job], workers=1, cache=self.cache)
+            report = teach(self.folder, [job], workers=1, searches=self.searches)
             model = self.folder.load()
             with self.lock:
                 self.open.model = model
@@ -158,13 +155,12 @@ class Session:
         """The analyst's pick among look-alikes, taught as a stronger confirmation: the answer
         on the whole table and, when rows tell the readings apart, the answer on those rows."""
         reading = comparison.readings[index]
-        extra: dict = {"strength": PICK_STRENGTH}
         if comparison.rows:
-            extra |= {"rows": list(comparison.rows),
-                      "rows_answer": _plain(comparison.answers[index])}
-        else:
-            extra["meant"] = str(reading.form)
-        return self.confirm(question, reading.answer, "pick", extra)
+            return self.confirm(question, reading.answer, "pick", strength=PICK_STRENGTH,
+                                rows=list(comparison.rows),
+                                rows_answer=_plain(comparison.answers[index]))
+        return self.confirm(question, reading.answer, "pick", strength=PICK_STRENGTH,
+                            meant=str(reading.form))
 
     def undo(self) -> Taught | None:
         """Take back the last confirmation of this session (a retraction record is logged)."""
@@ -172,7 +168,8 @@ class Session:
             return None
         last = self.taught.pop()
         with self.teaching:
-            model = retract(self.folder, last.record, before=last.before, cache=self.cache)
+            model = retract(self.folder, last.record, before=last.before,
+                            searches=self.searches)
             with self.lock:
                 self.open.model = model
         self.history.append(Event("undo", last.question, f"took back {_short(last.answer)}"))
@@ -180,12 +177,8 @@ class Session:
 
     def warm(self) -> int:
         """Search the log's recent confirmations ahead of the first teaching (in a worker)."""
-        replay = [job_of_record(r) for r in live(self.folder.read_log())[-REPLAY:]]
         with self.teaching:
-            todo = [j for j in replay if example_key(j, TEACH_PAIR_BEAM) not in self.cache]
-            if todo:   # searched as teaching will (fresh=[]: settles nothing)
-                learn_from(self.folder.load(), todo, workers=1, cache=self.cache, fresh=[])
-        return len(todo)
+            return warm(self.folder, self.searches)
 
 
 # ── finding rows where readings differ ────────────────────────────────────────────────────────

@@ -14,7 +14,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Input, OptionList, Static
 from textual.widgets.option_list import Option
 
-from .. import api
+from .. import pipeline
 from .chart import bar_rows
 from .session import Comparison
 
@@ -23,7 +23,7 @@ METER = 8                # cells of the confidence meter
 SHOWN = 12               # distinct answers listed: a glance, not a report
 
 
-def answer_text(reading: api.Reading, most: int = 6) -> Text:
+def answer_text(reading: pipeline.Reading, most: int = 6) -> Text:
     """An answer as people read it; an empty or failed reading says so."""
     if reading.error:
         return Text(f"failed: {reading.error}", style="bold #e0685f")
@@ -39,7 +39,7 @@ def answer_text(reading: api.Reading, most: int = 6) -> Text:
 def meter(probability: float) -> Text:
     """A confidence hint: filled dots for the share of the model's belief."""
     filled = round(probability * METER)
-    colour = "#7fc97f" if probability >= api.UNSURE else "#c9a25a"
+    colour = "#7fc97f" if probability >= pipeline.UNSURE else "#c9a25a"
     return Text("●" * filled, style=colour) + Text("○" * (METER - filled), style="#5b6470") + \
         Text(f" {probability:4.0%}", style=colour)
 
@@ -48,7 +48,7 @@ def sql_view(sql: str) -> Syntax:
     return Syntax(sql, "sql", theme=SQL_THEME, word_wrap=True, background_color="default")
 
 
-def group_table(reading: api.Reading, width: int = 24) -> RichTable:
+def group_table(reading: pipeline.Reading, width: int = 24) -> RichTable:
     """A per-group answer as a table with a bar per group."""
     table = RichTable(box=None, pad_edge=False, show_header=True, header_style="bold #8fb3d9")
     table.add_column("group")
@@ -77,7 +77,7 @@ class AnswerList(OptionList):
             super().__init__()
             self.action, self.index = action, index
 
-    def show(self, result: api.Result, alikes: list[int]) -> None:
+    def show(self, result: pipeline.Result, alikes: list[int]) -> None:
         """Fill the list; `alikes[i]` is how many readings give answer i."""
         self.clear_options()
         for i, reading in enumerate(result.readings[:SHOWN]):
@@ -111,7 +111,7 @@ class ReadingPanel(VerticalScroll):
     def compose(self) -> ComposeResult:
         yield Static(id="reading-text")
 
-    def show(self, reading: api.Reading | None, alikes: int = 1) -> None:
+    def show(self, reading: pipeline.Reading | None, alikes: int = 1) -> None:
         body = self.query_one("#reading-text", Static)
         if reading is None:
             body.update(Text("Ask a question about the table above.", style="#8a94a0"))
@@ -154,6 +154,32 @@ class AnswerPrompt(ModalScreen[str | None]):
         self.dismiss(None)
 
 
+class TablePicker(ModalScreen[str | None]):
+    """A file with several tables or sheets: the analyst chooses the one to ask about."""
+
+    BINDINGS = [Binding("escape", "cancel", "Cancel")]
+
+    def __init__(self, file: str, names: list[str]) -> None:
+        super().__init__()
+        self.file, self.names = file, names
+
+    def compose(self) -> ComposeResult:
+        with Vertical(id="prompt-box"):
+            yield Static(Text(f"{self.file} holds {len(self.names)} tables. Which one?\n",
+                              style="bold"))
+            yield OptionList(*(Option(name) for name in self.names), id="table-choice")
+            yield Static(Text("enter: open it · escape: cancel", style="#8a94a0"))
+
+    def on_mount(self) -> None:
+        self.query_one("#table-choice", OptionList).focus()
+
+    def on_option_list_option_selected(self, event: OptionList.OptionSelected) -> None:
+        self.dismiss(self.names[event.option_index])
+
+    def action_cancel(self) -> None:
+        self.dismiss(None)
+
+
 class CompareScreen(ModalScreen[int | None]):
     """Look-alike readings side by side, with rows where they differ; a number key picks one."""
 
@@ -179,7 +205,7 @@ class CompareScreen(ModalScreen[int | None]):
                              sql_view(reading.sql)]
                     if c.rows:
                         parts += [Text(""), Text("on the rows below: ", style="#8a94a0")
-                                  + answer_text(api.Reading(reading.form, "", "", c.answers[i],
+                                  + answer_text(pipeline.Reading(reading.form, "", "", c.answers[i],
                                                             0.0, {}, is_table=reading.is_table))]
                     yield Static(Group(*parts), classes="side")
             yield Static(self._sample(), id="compare-rows")
