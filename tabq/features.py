@@ -16,6 +16,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from dataclasses import dataclass
 
+from . import featurenames
 from .analyse import Analysis, Atom
 from .answers import Denotation
 from .logic import Extreme, Neighbour, Position, walk
@@ -70,8 +71,8 @@ def lexical(analysis: Analysis, fragment: str) -> Features:
     """Every question word and phrase paired with a fragment: the learnable lexicon."""
     cache = analysis.cache.setdefault("lex", {})
     if fragment not in cache:
-        feats = {f"lex:{g}|{fragment}": 1.0 for g in analysis.grams}
-        feats[f"op:{fragment}"] = 1.0
+        feats = {featurenames.lex(g, fragment): 1.0 for g in analysis.grams}
+        feats[featurenames.op(fragment)] = 1.0
         cache[fragment] = feats
     return cache[fragment]
 
@@ -80,7 +81,7 @@ def lexical_column(analysis: Analysis, col: str) -> Features:
     """Question words paired with a column: how the team's words name its columns."""
     cache = analysis.cache.setdefault("lexcol", {})
     if col not in cache:
-        cache[col] = {f"lexcol:{g}|{col}": 1.0 for g in analysis.grams if " " not in g}
+        cache[col] = {featurenames.column(g, col): 1.0 for g in analysis.grams if " " not in g}
     return cache[col]
 
 
@@ -92,7 +93,7 @@ def lexical_value(analysis: Analysis, col: str, value, at: int | None = None) ->
     else:
         word = analysis.words.tokens[at].stem
         grams = [g for g in analysis.grams if word in g.split(" ") and g.count(" ") < 2]
-    return {f"lexval:{g}|{col}={value}": 1.0 for g in grams}
+    return {featurenames.value(g, col, value): 1.0 for g in grams}
 
 
 # ── composition steps ─────────────────────────────────────────────────────────────────────────

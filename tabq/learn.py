@@ -31,6 +31,7 @@ from .answers import matches
 from .pipeline import OpenTable
 from .derive import PAIR_BEAM
 from .execute import run_on_rows
+from .featurenames import parse
 from .load import TableRef
 from .model import Model
 from .text import STOPWORDS, stem
@@ -277,11 +278,10 @@ def settle(model: Model, examples: list[Example], margin: float = TEACH_MARGIN,
 def plasticity(name: str) -> float:
     """How far a settling step moves this feature: 1 for a content word paired with a meaning,
     STRUCTURE_RATE for the rest (frame words, the question type, structure, answer shape)."""
-    kind, _, rest = name.partition(":")
-    if kind not in ("lex", "lexcol", "lexval") or rest.startswith("qtype:"):
+    pair = parse(name)
+    if pair is None or pair.is_question_type:
         return STRUCTURE_RATE
-    gram = rest.split("|", 1)[0]
-    return 1.0 if any(word not in FRAME_WORDS for word in gram.split()) else STRUCTURE_RATE
+    return 1.0 if any(word not in FRAME_WORDS for word in pair.word.split()) else STRUCTURE_RATE
 
 
 def _plasticities(model: Model) -> np.ndarray:

@@ -1,7 +1,8 @@
 """The lexicon: what a model learned, as a file people review, version, diff and share.
 
 A learned weight is an offset from the prior on a named feature (see features.py). The lexical
-ones pair a question word or phrase with a meaning and become *entries*:
+ones pair a question word or phrase with a meaning and become *entries* (word, kind, meaning),
+read from the feature's name by featurenames.py:
 
     lex:<word>|<fragment>        kind "operator" (sum, cmp:gt, dir:max …) or "fragment" (eq, or …)
     lexcol:<word>|<column>       kind "column"
@@ -29,13 +30,14 @@ import io
 import json
 import math
 from collections import Counter, defaultdict
-from collections.abc import Iterable, Mapping
+from collections.abc import Iterable
 from dataclasses import dataclass
 from pathlib import Path
 
 from . import records
 from .analyse import question_grams
 from .errors import InputError
+from .featurenames import KINDS, Pair, open_sense, parse, senses
 from .model import Model
 from .store import ModelFolder, atomic_write
 
@@ -49,13 +51,6 @@ MAX_TEXT = 1000              # characters in a word, meaning or feature name
 MAX_SUPPORT = 10**9
 MODES = ("merge", "replace")
 
-PREFIXES = {"column": "lexcol:", "value": "lexval:", "operator": "lex:", "fragment": "lex:"}
-KINDS = ("column", "value", "operator", "fragment")
-# Fragments that are operations on values or comparisons; the other fragments are shapes of
-# composition (eq, and, or, not, which_of, group_best, top_n, per_group …).
-OPERATOR_FRAGMENTS = {"sum", "avg", "min", "max", "median", "count", "first", "last", "next",
-                      "prev"}
-OPERATOR_PREFIXES = ("cmp:", "extreme:", "dir:", "group:")
 JSON_TOP = ("format", "version", "confirmations", "support_unknown", "entries", "structure")
 JSON_ENTRY = ("word", "kind", "meaning", "learned", "weight", "support")
 JSON_STRUCTURE = ("feature", "learned", "weight", "support")
@@ -83,7 +78,7 @@ class Entry:
     def feature(self) -> str:
         if self.kind == "structure":
             return self.meaning
-        return f"{PREFIXES[self.kind]}{self.word}|{self.meaning}"
+        return Pair(self.kind, self.word, self.meaning).name
 
     @property
     def key(self) -> tuple[str, str, str]:
@@ -101,40 +96,6 @@ class Lexicon:
         return self.entries + self.structure
 
 
-# ── feature names ─────────────────────────────────────────────────────────────────────────────
-def split_feature(name: str) -> tuple[str, str, str] | None:
-    """(word, kind, meaning) of a lexical feature, or None for a structure feature."""
-    for prefix, kind in (("lexcol:", "column"), ("lexval:", "value"), ("lex:", None)):
-        if name.startswith(prefix):
-            word, bar, meaning = name[len(prefix):].partition("|")
-            if not bar or not word or not meaning:
-                return None
-            if kind is None:
-                kind = "operator" if _is_operator(meaning) else "fragment"
-            return word, kind, meaning
-    return None
-
-
-def _is_operator(fragment: str) -> bool:
-    return fragment in OPERATOR_FRAGMENTS or fragment.startswith(OPERATOR_PREFIXES)
-
-
-def sense(name: str) -> str:
-    """A feature name with its question word taken out: what a chosen query means."""
-    parts = split_feature(name)
-    if parts is None:
-        return name
-    word, kind, meaning = parts
-    if kind == "value":     # a value pairs with the words it stands on, not every word: keep them
-        return name
-    return f"{PREFIXES[kind]}*|{meaning}"
-
-
-def senses(features: Mapping[str, float]) -> list[str]:
-    """The senses a query fires, sorted: what the log keeps of a confirmation's target."""
-    return sorted({sense(name) for name, value in features.items() if value})
-
-
 # ── from a model folder ──────────────────────────────────────────────────────────────────────
 def from_folder(folder: ModelFolder) -> Lexicon:
     """The lexicon of a model folder: its learned weights with their support."""
@@ -147,12 +108,13 @@ def from_folder(folder: ModelFolder) -> Lexicon:
     entries, structure = [], []
     prior = Model.prior()
     for name, offset in learned.items():
-        parts = split_feature(name)
+        pair = parse(name)
         weight = _round(prior.weight(name) + offset)
-        if parts is None:
+        if pair is None:
             structure.append(Entry("", "structure", name, offset, weight, support[name]))
         else:
-            entries.append(Entry(*parts, offset, weight, support[name]))
+            entries.append(Entry(pair.word, pair.kind, pair.meaning, offset, weight,
+                                 support[name]))
     return _sorted(Lexicon(confirmations, unknown, entries, structure))
 
 
@@ -201,20 +163,21 @@ def _support(log: list[records.Record], model: Model) -> tuple[Counter, int, int
     return support, confirmations, unknown
 
 
-LEXICAL_SENSES = tuple(f"{prefix}*|" for prefix in ("lex:", "lexcol:", "lexval:"))
-
-
 def _count(support: Counter, fired: set[str], grams: Iterable[str]) -> None:
-    lexical = [name for name in fired if name.startswith(LEXICAL_SENSES)]
-    for name in fired - set(lexical):
-        support[name] += 1
-    # a lexical sense "lex:*|sum" fires "lex:<gram>|sum" for every gram of the question
+    """One confirmation's support: every feature its senses fire for its question's grams."""
+    open_pairs = []
+    for name in fired:
+        pair = open_sense(name)
+        if pair is None:
+            support[name] += 1
+        else:
+            open_pairs.append(pair)
+    # a sense "lex:*|sum" fires "lex:<gram>|sum" for every gram of the question
     for gram in grams:
-        for name in lexical:
-            prefix, _, meaning = name.partition("*|")
-            if prefix != "lex:" and " " in gram:
+        for pair in open_pairs:
+            if pair.kind in ("column", "value") and " " in gram:
                 continue        # column and value pairs take single words only
-            support[f"{prefix}{gram}|{meaning}"] += 1
+            support[pair.with_word(gram).name] += 1
 
 
 def _senses_again(old: list[records.Confirmation], model: Model) -> dict[int, list[str]]:
@@ -537,7 +500,7 @@ def _structure(item: object, where: str) -> Entry:
         raise LexiconError(f"{where}: must be an object, not {_type(item)}")
     _keys(item, JSON_STRUCTURE, where)
     feature = _text_field(item, "feature", where)
-    if split_feature(feature) is not None:
+    if parse(feature) is not None:
         raise LexiconError(f"{where}: {feature[:60]!r} pairs a word with a meaning; it belongs "
                            "in entries")
     return Entry("", "structure", feature, _weight_field(item, "learned", where),

@@ -8,6 +8,7 @@ starts from this prior and can overrule any of it.
 
 from __future__ import annotations
 
+from . import featurenames
 from .text import split_words, stem
 
 # fragment: (bias, {cue phrase: weight})
@@ -193,9 +194,9 @@ def prior_weights() -> dict[str, float]:
     """Feature weights of the untaught model."""
     weights: dict[str, float] = {}
     for fragment, (bias, cues) in CUES.items():
-        weights[f"op:{fragment}"] = bias
+        weights[featurenames.op(fragment)] = bias
         for phrase, weight in cues.items():
-            weights[f"lex:{cue_key(phrase)}|{fragment}"] = weight
+            weights[featurenames.lex(cue_key(phrase), fragment)] = weight
     weights.update(STRUCTURE_PRIOR)
     return weights
 

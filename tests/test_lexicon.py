@@ -13,7 +13,7 @@ import jsonschema
 import pytest
 
 import tabq
-from tabq import lexicon
+from tabq import featurenames, lexicon
 from tabq.analyse import analyse, question_grams
 from tabq.lexicon import LexiconError
 from tabq.load import load_table
@@ -443,7 +443,7 @@ _entry = st.builds(lambda word, kind, col, val, learned, weight, support: lexico
     _weight, _weight, st.integers(0, 10**6))
 _structure = st.builds(lambda name, learned, weight, support: lexicon.Entry(
     "", "structure", name, learned, weight, support),
-    _text.filter(lambda n: lexicon.split_feature(n) is None), _weight, _weight,
+    _text.filter(lambda n: featurenames.parse(n) is None), _weight, _weight,
     st.integers(0, 10**6))
 
 
