@@ -102,7 +102,12 @@ def from_folder(folder: ModelFolder) -> Lexicon:
     if not folder.path.is_dir():
         raise InputError(f"{folder.path}: no model folder there")
     model = folder.load()
-    log = folder.read_log()
+    return from_model(model, folder.read_log())
+
+
+def from_model(model: Model, log: list[records.Record]) -> Lexicon:
+    """The lexicon of a model and the log it was taught from: its learned weights with their
+    support. The app's words view reads this too, so both count support the same way."""
     learned = learned_offsets(model)
     support, confirmations, unknown = _support(log, model)
     entries, structure = [], []

@@ -15,11 +15,13 @@ import pytest
 import tabq
 from tabq import featurenames, lexicon
 from tabq.analyse import analyse, question_grams
+from tabq.featurenames import Pair
 from tabq.lexicon import LexiconError
 from tabq.load import load_table
 from tabq.model import Model
 from tabq.store import LOG, WEIGHTS, ModelFolder
 from tabq.teaching import Job, rebuild, teach
+from tabq.ui import learned
 
 SCHEMA = json.loads((Path(__file__).resolve().parent.parent / "docs" / "lexicon.schema.json")
                     .read_text(encoding="utf-8"))
@@ -416,6 +418,34 @@ def test_cli_export_show_import_diff(shop, tmp_path):
     tabq_cli("lexicon", "export", "--model", tmp_path / "m", tmp_path / "b.json")
     same = tabq_cli("lexicon", "diff", tmp_path / "a.json", tmp_path / "b.json")
     assert same.returncode == 0 and "0 added, 0 removed, 0 changed" in same.stdout
+
+
+def _shown(stdout: str) -> dict[tuple[str, str, str], int]:
+    """(word, kind, meaning) → support of each row `tabq lexicon show` prints. The three numbers
+    end a row; the header says where kind and meaning start (a word may hold spaces)."""
+    lines = stdout.split("\n\n")[0].splitlines()
+    kind_at, meaning_at = lines[0].index("kind"), lines[0].index("meaning")
+    rows = {}
+    for line in lines[1:]:
+        text, _, _, support = line.rsplit(maxsplit=3)
+        key = (text[:kind_at].strip(), text[kind_at:meaning_at].strip(), text[meaning_at:].strip())
+        rows[key] = int(support)
+    return rows
+
+
+def test_the_app_and_lexicon_show_count_the_same_support(shop):
+    folder, _, _ = shop
+    shown = tabq_cli("lexicon", "show", "--model", folder.path)
+    assert shown.returncode == 0, shown.stderr
+    by_cli = {(word, learned.plain(Pair(kind, word, meaning))): support
+              for (word, kind, meaning), support in _shown(shown.stdout).items()
+              if kind != "structure"}
+    in_app = learned.entries(folder.load(), folder.read_log())
+    assert in_app and any(e.support for e in in_app)
+    for e in in_app:
+        assert e.support == by_cli[e.words, e.means], e
+    # a reading the taught questions pushed down: each holds the word, none chose the reading
+    assert any(e.learned < 0 and e.support == 0 for e in in_app)
 
 
 def test_cli_bad_lexicon_is_one_line_and_exit_2(shop, tmp_path):

@@ -1,20 +1,19 @@
-"""What the model has learned each word to mean: lexical weights minus the prior, with how many
-confirmations back them.
+"""What the model has learned each word to mean: the lexicon's word entries (lexicon.py), in
+plain words, largest change first.
 
-Support is counted the simple way: live confirmations in the log whose question contains the
-word (as the analyser stems it). A feature's name says what it pairs:
-`lex:<words>|<fragment>` (an operation), `lexcol:<word>|<column>`, `lexval:<word>|<column>=<v>`.
+Support is the lexicon's own count, the one `tabq lexicon show` prints: confirmations whose chosen
+reading pairs the word with that meaning.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ..analyse import question_grams
+from .. import lexicon
+from ..featurenames import Pair
 from ..model import Model
-from ..records import confirmations, live
+from ..records import Record
 
-PREFIXES = ("lex:", "lexcol:", "lexval:")
 SHOWN = 0.01             # learned changes smaller than this are noise, not meaning
 
 
@@ -24,35 +23,25 @@ class Entry:
     means: str                 # what it is paired with, in plain words
     weight: float              # the model's weight now
     learned: float             # how far teaching moved it from the prior
-    support: int               # confirmations whose question holds the words
+    support: int               # confirmations whose chosen reading pairs the words with it
 
 
-def meaning(feature: str) -> tuple[str, str] | None:
-    """(words, what they mean) of a lexical feature's name, or None for other features."""
-    for prefix in PREFIXES:
-        if feature.startswith(prefix):
-            words, _, what = feature[len(prefix):].partition("|")
-            if words.startswith("qtype:"):
-                return None
-            if prefix == "lexcol:":
-                return words, f"the column {what}"
-            if prefix == "lexval:":
-                col, _, value = what.partition("=")
-                return words, f"{col} is {value!r}"
-            return words, f"the operation {what}"
-    return None
+def plain(pair: Pair) -> str:
+    """What a word's pair means, in plain words."""
+    if pair.kind == "column":
+        return f"the column {pair.meaning}"
+    if pair.kind == "value":
+        col, value = pair.cell
+        return f"{col} is {value!r}"
+    return f"the operation {pair.meaning}"
 
 
-def entries(model: Model, log: list[dict]) -> list[Entry]:
-    """Every learned lexical weight, largest change first."""
-    prior = Model.prior()
-    grams = [set(question_grams(r.question)) for r in confirmations(live(log))]
+def entries(model: Model, log: list[Record]) -> list[Entry]:
+    """Every learned word weight, largest change first (not the question-type pairs)."""
     out = []
-    for name, weight in model.items():
-        read = meaning(name)
-        learned = weight - prior.weight(name)
-        if read is None or abs(learned) < SHOWN:
+    for e in lexicon.from_model(model, log).entries:
+        pair = Pair(e.kind, e.word, e.meaning)
+        if pair.is_question_type or abs(e.learned) < SHOWN:
             continue
-        words, means = read
-        out.append(Entry(words, means, weight, learned, sum(words in g for g in grams)))
+        out.append(Entry(e.word, plain(pair), e.weight, e.learned, e.support))
     return sorted(out, key=lambda e: (-abs(e.learned), e.words, e.means))
