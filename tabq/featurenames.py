@@ -3,13 +3,14 @@
 A lexical feature pairs a gram of the question (a stemmed word or phrase of one to three words,
 or "qtype:<type>" for the kind of question) with a meaning:
 
-    lex:<gram>|<fragment>            kind "operator" (sum, cmp:gt, dir:max …) or "fragment" (eq, or …)
-    lexcol:<gram>|<column>           kind "column"
-    lexval:<gram>|<column>=<value>   kind "value"
+    lex:<gram>|<fragment>           kind "operator" (sum, cmp:gt, dir:max …) or "fragment" (eq …)
+    lexcol:<gram>|<column>          kind "column"
+    lexval:<gram>|<column>=<value>  kind "value"
 
 and `op:<fragment>` is a fragment's bias, whatever the words; it pairs no word, so it reads as a
 structure feature, like every other name. A name splits at its first "|" (a gram holds none, a
-column or value may) and a value's meaning at its first "=" (column names never hold one).
+column or value may) and a value's meaning at its first "=" (load.clean_name keeps column names
+to a-z, 0-9 and _).
 
 A *sense* is a name with its gram replaced by "*": what a query means, whichever words asked for
 it. The log keeps a confirmation's senses to count the lexicon's support.
