@@ -6,12 +6,14 @@ usage: python benchmarks/candidates.py OUT.jsonl [--limit N]
 For each question of the WTQ fixture (tests/fixtures/wtq), the zero-shot sets and the
 vocabulary tests (benchmarks/), under the untaught model and under a model taught the
 vocabulary's confirmations, one line holds every executed candidate: its canonical form, its
-score (repr, so bit for bit), its features (sorted, values as repr) and its answer. Two dumps
+score (repr, so bit for bit), its features (sorted, values as repr) and a digest of its answer
+(a per-group table's rows as a multiset, since ties come back in any order). Two dumps
 of the same commit are identical; `--compare` names the first question where two differ.
 """
 
 from __future__ import annotations
 
+import hashlib
 import json
 import sys
 from pathlib import Path
@@ -56,7 +58,16 @@ def dump(out: Path, limit: int | None) -> None:
 def _candidate(reading) -> list:
     return [str(reading.form), repr(reading.score),
             sorted((k, repr(v)) for k, v in reading.features.items()),
-            [str(v) for v in reading.answer[:20]], reading.error]
+            _answer(reading), reading.error]
+
+
+def _answer(reading) -> str:
+    """The whole answer as a digest. The rows of a per-group table come back in any order
+    among equal values (DuckDB gives no order to ties), so a table is compared as a multiset."""
+    values = [repr(v) for v in reading.answer]
+    if reading.is_table:
+        values.sort()
+    return f"{len(values)}:" + hashlib.sha256("\n".join(values).encode()).hexdigest()[:16]
 
 
 def compare(a: Path, b: Path) -> int:

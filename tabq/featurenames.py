@@ -24,8 +24,8 @@ from dataclasses import dataclass, replace
 KINDS = ("column", "value", "operator", "fragment")
 # Fragments that are operations on values or comparisons; the other fragments are shapes of
 # composition (eq, and, or, not, which_of, group_best, top_n, per_group …).
-OPERATOR_FRAGMENTS = frozenset({"sum", "avg", "min", "max", "median", "count", "first", "last",
-                                "next", "prev"})
+OPERATION_FRAGMENTS = frozenset({"sum", "avg", "min", "max", "median", "count", "first", "last",
+                                 "next", "prev"})
 OPERATOR_PREFIXES = ("cmp:", "extreme:", "dir:", "group:")
 ANY_WORD = "*"               # the word of a sense
 QUESTION_TYPE = "qtype:"     # a gram that is the kind of question, not a word of it
@@ -90,7 +90,7 @@ def parse(name: str) -> Pair | None:
 
 def fragment_kind(fragment: str) -> str:
     """A fragment's kind: "operator" (an operation on values, a comparison) or "fragment"."""
-    is_operator = fragment in OPERATOR_FRAGMENTS or fragment.startswith(OPERATOR_PREFIXES)
+    is_operator = fragment in OPERATION_FRAGMENTS or fragment.startswith(OPERATOR_PREFIXES)
     return "operator" if is_operator else "fragment"
 
 

@@ -9,16 +9,15 @@ from __future__ import annotations
 
 from collections import defaultdict
 
-from .. import records
-from ..learn import Example
-from .. import lexicon
+from .. import lexicon, records
+from ..featurenames import senses
+from ..learn import TEACH_PAIR_BEAM, Example
 from ..lexicon import apply_import
 from ..model import Model
 from ..records import Confirmation, Import, Retraction
 from ..store import ModelFolder, as_saved
 from .examples import Job, job_of
 from .learning import DEFAULT_OBJECTIVE, EPOCHS, Searches, TeachReport, learn_from
-from ..lexicon import senses
 
 REPLAY = 200                  # earlier confirmations replayed with each new batch
 
@@ -134,7 +133,6 @@ def replayable(log: list[records.Record]) -> list[Confirmation]:
 def warm(folder: ModelFolder, searches: Searches) -> int:
     """Search the log's recent confirmations ahead of the first teaching, as teaching will
     search them; returns how many were searched."""
-    from ..learn import TEACH_PAIR_BEAM
     replay = [job_of(r) for r in replayable(folder.read_log())[-REPLAY:]]
     todo = [j for j in replay if searches.get(j, TEACH_PAIR_BEAM) is None]
     if todo:   # fresh=[]: searched with the teaching beam, settles nothing

@@ -357,21 +357,27 @@ class TabqApp(App):
                   "history": "#history-table"}[name]
         self._q(target).focus()
 
+    @work(thread=True, exclusive=True, group="words")
     def _refresh_words(self) -> None:
+        """Count what was learned off the screen's thread: for old log lines the lexicon asks
+        their questions again to find what they taught."""
+        try:
+            found = entries(self.session.open.model, self.session.folder.read_log())
+        except Exception as err:
+            self.call_from_thread(self.fail, err)
+            return
+        self.call_from_thread(self._show_words, found)
+
+    def _show_words(self, found: list) -> None:
         grid = self._q("#words-table", DataTable)
         grid.clear(columns=True)
         grid.add_columns("words", "mean", "weight", "learned", "confirmations")
-        try:
-            found = entries(self.session.open.model, self.session.folder.read_log())
-        except TabqError as err:
-            self.fail(err)
-            return
         for e in found:
             grid.add_row(e.words, e.means, f"{e.weight:+.2f}", f"{e.learned:+.2f}",
                          str(e.support))
         self._q("#words-info", Static).update(
             f"What tabq has learned each word to mean: {len(found)} weights moved from the "
-            "untaught model. confirmations = logged questions holding the words."
+            "untaught model. confirmations = confirmed answers whose reading used the pairing."
             if found else "Nothing learned yet: confirm an answer on the Ask tab.")
 
     def _refresh_history(self) -> None:
