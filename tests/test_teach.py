@@ -102,6 +102,26 @@ def test_rebuild_from_the_log_gives_the_saved_models_answers(tables, taught):
             == tabq.open(second, model=folder.path).ask("how many returns were there").answer)
 
 
+def test_a_version_1_log_still_rebuilds_the_same_model(taught, tmp_path):
+    """A log written before typed records (no header, no kind, the table a bare path with the
+    file's sha256 beside it) is read and replayed like a new one."""
+    import hashlib
+
+    folder, _ = taught
+    old = ModelFolder(tmp_path / "old")
+    lines = []
+    for r in folder.read_log():
+        digest = hashlib.sha256(open(r.table.path, "rb").read()).hexdigest()
+        lines.append(json.dumps({"id": r.id, "question": r.question, "table": r.table.path,
+                                 "fingerprint": digest, "answer": r.answer, "query": r.query,
+                                 "senses": r.senses, "time": r.time, "batch": r.batch}))
+    old.path.mkdir()
+    (old.path / "log.jsonl").write_text("\n".join(lines) + "\n")
+    assert [(r.question, r.table.fingerprint) for r in old.read_log()] == [
+        (r.question, r.table.fingerprint) for r in folder.read_log()]
+    assert rebuild(old, workers=1).as_dict() == rebuild(folder, workers=1).as_dict()
+
+
 def _count(path, **where):
     """Rows of a CSV whose columns hold these values, counted by the csv module."""
     with open(path, newline="") as f:
