@@ -2,7 +2,6 @@
 checked on the model folder's log and on the re-ranked answers. Plus its non-UI helpers."""
 
 import asyncio
-import json
 
 import pandas as pd
 import pytest

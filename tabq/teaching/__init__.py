@@ -14,5 +14,5 @@ from .learning import DEFAULT_OBJECTIVE, EPOCHS, Searches, TeachReport, learn_fr
 
 __all__ = ["DEFAULT_OBJECTIVE", "EPOCHS", "REPLAY", "EvalReport", "ExamplesError", "Job",
            "Searches", "TeachReport", "current", "evaluate", "export_lexicon",
-           "import_lexicon", "learn_from", "lexicon_of", "read_examples", "rebuild", "retract", "teach",
-           "warm", "write_predictions"]
+           "import_lexicon", "learn_from", "lexicon_of", "read_examples", "rebuild", "retract",
+           "teach", "warm", "write_predictions"]
