@@ -4,6 +4,8 @@ modules, and no private name (a leading underscore) used outside the module that
 import ast
 from pathlib import Path
 
+import pytest
+
 import tabq
 
 PACKAGE = Path(tabq.__file__).parent
@@ -142,3 +144,15 @@ def test_the_private_name_check_sees_both_ways_of_reaching_one():
     finally:
         path.unlink()
         del MODULES["tabq._planted_for_test"]
+
+
+def test_every_package_is_listed_for_installing():
+    """A subpackage missing from pyproject's list is left out of the wheel: `pip install .`
+    then gives a tabq that cannot import itself (this happened once)."""
+    tomllib = pytest.importorskip("tomllib")     # Python 3.11 and later
+    root = Path(__file__).resolve().parent.parent
+    listed = set(tomllib.loads((root / "pyproject.toml").read_text())["tool"]["setuptools"][
+        "packages"])
+    source = root / "tabq"
+    packages = {".".join(p.parent.relative_to(root).parts) for p in source.rglob("__init__.py")}
+    assert packages <= listed, sorted(packages - listed)
