@@ -201,7 +201,9 @@ def _senses_again(old: list[records.Confirmation], model: Model) -> dict[int, li
         except TabqError:
             continue
         for record in group:
-            if not _same_content(record.table, table.table):
+            # unchanged since? (version 1 logs hashed the file alone: the same fingerprint for
+            # one-table formats; for a SQLite table or a sheet the support stays unknown)
+            if record.table.fingerprint != table.table.fingerprint:
                 continue
             if not record.query:
                 out[id(record)] = []       # no reading gave the answer: it taught nothing
@@ -215,12 +217,6 @@ def _senses_again(old: list[records.Confirmation], model: Model) -> dict[int, li
                     out[id(record)] = senses(cand.features)
                     break
     return out
-
-
-def _same_content(ref, table) -> bool:
-    """Whether a logged table reference is this loaded table, unchanged. Version 1 logs hashed
-    the file alone, which equals the loader's fingerprint for one-table formats."""
-    return ref.fingerprint in (table.fingerprint, None if table.name else table.fingerprint)
 
 
 # ── writing ───────────────────────────────────────────────────────────────────────────────────
