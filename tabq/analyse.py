@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from rapidfuzz import fuzz
 
 from .errors import QuestionError
-from .load import ROW, Column, Table
+from .table import ROW, Column, Table
 from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
 from .rules import OPERATORS
 from .text import DateMention, Words, normalise, read_question, split_words, stem

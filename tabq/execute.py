@@ -24,7 +24,7 @@ from sqlglot import exp
 from . import logic as L
 from .answers import Denotation, clean
 from .errors import QueryError
-from .load import ROW, Table
+from .table import ROW, Table
 from .sql import aggregate, any_row, column, on_rows, only_when, render, select, where
 
 QUERY_SECONDS = 5.0

@@ -32,7 +32,7 @@ from .pipeline import OpenTable
 from .derive import PAIR_BEAM
 from .execute import run_on_rows
 from .featurenames import parse
-from .load import TableRef
+from .table import TableRef
 from .model import Model
 from .text import STOPWORDS, stem
 

@@ -13,7 +13,7 @@ from .answers import Denotation
 from .derive import PAIR_BEAM, Item, derive
 from .execute import run_many
 from .features import ANSWER_FEATURES, answer_score_bound
-from .load import Table
+from .table import Table
 from .model import Model
 from .sql import render
 

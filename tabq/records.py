@@ -30,7 +30,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from .errors import ModelError
-from .load import TableRef
+from .table import TableRef
 
 LOG_FORMAT = "tabq-log"
 LOG_VERSION = 2

@@ -13,7 +13,7 @@ from functools import lru_cache
 from sqlglot import exp
 
 from . import logic as L
-from .load import ROW, TABLE
+from .table import ROW, TABLE
 
 AGGREGATES = {
     "sum": exp.Sum, "avg": exp.Avg, "min": exp.Min, "max": exp.Max, "median": exp.Median,

@@ -1,4 +1,4 @@
-"""Tests of the load stage (tabq/load.py) and of the cell parsers it uses (tabq/values.py).
+"""Tests of the load stage (tabq/load.py and the modules of its steps) and of the cell parsers it uses (tabq/values.py).
 
 All tables here are invented for the tests, except the Palmer penguins check at the end.
 """
@@ -15,9 +15,11 @@ import threading
 import duckdb
 import pytest
 
-from tabq import load, values
+from tabq import load, retype, values
 from tabq.errors import TableFileError, UnknownTableError
-from tabq.load import ROW, TABLE, VALUE_CAP, clean_names, load_table
+from tabq.load import load_table
+from tabq.retype import clean_names
+from tabq.table import ROW, TABLE, VALUE_CAP
 
 # ---------------------------------------------------------------- helpers
 
@@ -233,7 +235,7 @@ def test_values_capped(tmp_path):
 
 def test_varied_text_columns_use_sql(tmp_path, monkeypatch):
     # Above VIEW_DISTINCT_CAP distinct texts a column is trimmed and retyped in SQL, with no views.
-    monkeypatch.setattr(load, "VIEW_DISTINCT_CAP", 3)
+    monkeypatch.setattr(retype, "VIEW_DISTINCT_CAP", 3)
     path = write(tmp_path / "varied.csv",
                  "a,b\n 1 ,x 1\n2,x 2\n—,\u00a0x 3 \n4,x 4\n5,x 4\n6,n/a\n")
     table = load_table(path)

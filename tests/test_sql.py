@@ -17,7 +17,7 @@ import sqlglot
 from sqlglot import exp
 
 from tabq import logic as L
-from tabq.load import ROW, TABLE
+from tabq.table import ROW, TABLE
 from tabq.sql import compile_form, render
 
 D = datetime.date

@@ -11,7 +11,7 @@ import warnings
 import pytest
 
 from tabq.errors import ModelError
-from tabq.load import TableRef
+from tabq.table import TableRef
 from tabq.model import Model
 from tabq.records import Confirmation, LogWarning
 from tabq.store import LOG, WEIGHTS, ModelFolder

@@ -22,7 +22,7 @@ from .. import api
 from .. import logic as L
 from ..answers import Denotation, matches
 from ..execute import run_on_rows, run_sql
-from ..load import ROW, TABLE
+from ..table import ROW, TABLE
 from ..model import Model
 from ..records import Confirmation
 from ..sql import condition

@@ -1,0 +1,83 @@
+"""staging: what every reader shares — the staging table `_src` its rows go into, in file order,
+and the `Source` it returns beside them."""
+
+from __future__ import annotations
+
+import csv
+import json
+import tempfile
+from collections.abc import Iterable
+from dataclasses import dataclass
+from pathlib import Path
+
+from ..errors import UnknownTableError
+from ..table import Con, ident
+
+CHUNK = 50_000        # rows per insert from the Python readers
+
+
+@dataclass
+class Source:
+    """What a reader leaves besides the staging table: headers in file order and a title."""
+
+    headers: list[str]
+    title: str
+    table: str | None = None       # the chosen SQLite table or sheet, part of the fingerprint
+
+
+def insert_rows(con: Con, width: int, rows: Iterable[list]) -> None:
+    """Rows from a Python reader into `_src` as text, in order. They pass through a CSV file in
+    a temporary folder, written by the csv module and read by DuckDB: both are C code, many
+    times faster than handing DuckDB Python lists cell by cell. Rows must have `width` cells;
+    cells are text, numbers, booleans, dates or None, and build types the columns later."""
+    columns = {f"c{i}": "VARCHAR" for i in range(width)}
+    with tempfile.TemporaryDirectory(prefix="tabq-") as tmp:
+        staged = Path(tmp) / "rows.csv"
+        with staged.open("w", encoding="utf-8", errors="replace", newline="") as f:
+            csv.writer(f, lineterminator="\n").writerows(rows)
+        con.execute("CREATE TABLE _src AS SELECT * FROM read_csv(?, columns = ?, header = false, "
+                    "auto_detect = false, delim = ',', quote = '\"', escape = '\"', "
+                    "new_line = '\\n', max_line_size = ?)", [str(staged), columns, 1 << 30])
+
+
+def staging_names(con: Con) -> list[str]:
+    """The column names DuckDB's reader gave `_src`. A column called "rowid" is renamed, as it
+    would hide the rowid that carries the file order."""
+    names = [row[0] for row in con.execute("DESCRIBE _src").fetchall()]
+    for i, name in enumerate(names):
+        if name.casefold() == "rowid":
+            con.execute(f"ALTER TABLE _src RENAME COLUMN {ident(name)} TO {ident(f'_rowid{i}')}")
+    return names
+
+
+def choose(names: list[str], wanted: str, where: str, what: str) -> str:
+    """The table or sheet called `wanted`, matched exactly or else ignoring case."""
+    if wanted in names:
+        return wanted
+    folded = [n for n in names if n.casefold() == wanted.casefold()]
+    if len(folded) == 1:
+        return folded[0]
+    raise UnknownTableError(f"{where}: no {what} named {wanted!r}; it has: {listing(names)}")
+
+
+def listing(names: list[str], cap: int = 20) -> str:
+    if not names:
+        return "none"
+    more = f" and {len(names) - cap} more" if len(names) > cap else ""
+    return ", ".join(repr(n) for n in names[:cap]) + more
+
+
+def cell_text(value: object) -> str | None:
+    """A JSON value or SQLite BLOB as text (the csv module writes other cells well enough)."""
+    if value is None or isinstance(value, str):
+        return value
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, bytes):
+        try:
+            return value.decode("utf-8")
+        except UnicodeDecodeError:
+            return value.hex()
+    if isinstance(value, (dict, list)):
+        return json.dumps(value, ensure_ascii=False)
+    return str(value)
