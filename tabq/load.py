@@ -70,6 +70,7 @@ def _load(path: Path, table: str | None) -> Table:
     con = _connect()
     try:
         source = READERS[kind](con, path, head, table)
+        source.report.format = kind
         plans, row_count = build(con, source.headers)
         columns, last_total = profile(con, plans, row_count), total_row(con, plans, row_count)
         _lock(con)
@@ -80,7 +81,7 @@ def _load(path: Path, table: str | None) -> Table:
         digest.update(b"\0" + source.table.encode())
     return Table(con=con, columns=columns, row_count=row_count, path=path.absolute(),
                  title=source.title, fingerprint=digest.hexdigest(), total_row=last_total,
-                 name=source.table)
+                 name=source.table, report=source.report)
 
 
 def _connect() -> Con:

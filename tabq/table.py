@@ -9,13 +9,8 @@ from pathlib import Path
 import duckdb
 
 ROW = "__row"          # hidden 0-based position of a row in the file
-
-
 TABLE = "t"            # the DuckDB relation that holds the rows
-
-
 VALUE_CAP = 5000       # distinct values kept per column for linking question words to cells
-
 
 Con = duckdb.DuckDBPyConnection
 
@@ -35,6 +30,55 @@ class Column:
     minimum: float | str | None = None   # number: float; date: ISO text
     maximum: float | str | None = None
     integer: bool = False          # a number column whose values are all whole
+
+
+@dataclass(frozen=True)
+class Skipped:
+    """Rows of the file that are not rows of TABLE, and why: so the reader can check them."""
+
+    why: str                       # "preamble", "blank", "ragged", "total", "subtotal", ...
+    rows: int                      # how many
+    lines: tuple[int, ...] = ()    # the first few, as 1-based lines (text) or rows (sheets)
+
+
+@dataclass(frozen=True)
+class ColumnRead:
+    """How one column's cells were read: its kind and what share of its real cells parsed."""
+
+    header: str
+    name: str
+    kind: str                      # as Column.kind
+    parsed: float = 1.0            # share of non-missing cells read as `kind` (1.0 when typed)
+    how: str = ""                  # a reading choice worth showing: "decimal comma", "day first"
+
+
+@dataclass
+class ReadReport:
+    """How a file became TABLE. Each step of loading adds what it decided; `notes` says in plain
+    words whatever was skipped, excluded or guessed, for the one-line note under an answer."""
+
+    format: str = ""               # "csv", "xlsx", "sqlite", ...
+    encoding: str | None = None    # text formats: the encoding the bytes were decoded with
+    delimiter: str | None = None
+    decimal_mark: str | None = None   # "." or "," when numbers were read from text
+    header_line: int | None = None    # 1-based line (or sheet row) the header was taken from
+    sources: tuple[str, ...] = ()     # several files read as one table: their names
+    skipped: list[Skipped] = field(default_factory=list)
+    columns: list[ColumnRead] = field(default_factory=list)
+    guesses: list[str] = field(default_factory=list)   # choices that could be wrong, in words
+
+    def skip(self, why: str, lines: list[int]) -> None:
+        """Record rows left out of TABLE (a no-op for none)."""
+        if lines:
+            self.skipped.append(Skipped(why, len(lines), tuple(lines[:5])))
+
+    def notes(self) -> list[str]:
+        """Plain sentences for whatever a reader should know before trusting an answer."""
+        said = [f"{s.rows} {s.why} row{'s' if s.rows != 1 else ''} left out"
+                + (f" (line{'s' if s.rows != 1 else ''} "
+                   f"{', '.join(map(str, s.lines))}{', ...' if s.rows > len(s.lines) else ''})"
+                   if s.lines else "") for s in self.skipped]
+        return said + list(self.guesses)
 
 
 @dataclass(frozen=True)
@@ -59,6 +103,7 @@ class Table:
     total_row: int | None = None   # ROW of a trailing "Total"-like row, if there is one
     cache: dict = field(default_factory=dict)   # answers by SQL, for the life of the table
     name: str | None = None        # the SQLite table or sheet read; None for one-table formats
+    report: ReadReport | None = None   # how the file was read (None for tables made in memory)
 
     @property
     def reference(self) -> TableRef:

@@ -7,22 +7,24 @@ import csv
 import json
 import tempfile
 from collections.abc import Iterable
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..errors import UnknownTableError
-from ..table import Con, ident
+from ..table import Con, ReadReport, ident
 
 CHUNK = 50_000        # rows per insert from the Python readers
 
 
 @dataclass
 class Source:
-    """What a reader leaves besides the staging table: headers in file order and a title."""
+    """What a reader leaves besides the staging table: headers in file order, a title, and its
+    part of the report on how the file was read."""
 
     headers: list[str]
     title: str
     table: str | None = None       # the chosen SQLite table or sheet, part of the fingerprint
+    report: ReadReport = field(default_factory=ReadReport)
 
 
 def insert_rows(con: Con, width: int, rows: Iterable[list]) -> None:
