@@ -15,6 +15,7 @@ import re
 import unicodedata
 from dataclasses import dataclass
 
+SIGNIFICANT = 10         # digits of a float shown and returned; float noise lives past 15
 _NUMBER = re.compile(r"^[+-]?(\d{1,3}(,\d{3})+|\d+)?(\.\d+)?$")
 
 
@@ -52,11 +53,7 @@ def clean(value):
     if isinstance(value, decimal.Decimal):
         value = float(value)
     if isinstance(value, float):
-        if math.isnan(value) or math.isinf(value):
-            return None
-        if value.is_integer() and abs(value) < 1e15:
-            return int(value)
-        return round(value, 10)
+        return tidy(value) if math.isfinite(value) else None
     if isinstance(value, (datetime.datetime, datetime.date)):
         if isinstance(value, datetime.datetime) and value.time() == datetime.time():
             value = value.date()
@@ -70,6 +67,23 @@ def clean(value):
     if isinstance(value, (bytes, bytearray)):
         return value.hex()
     return value
+
+
+def tidy(value: float) -> float | int:
+    """A float as people write it: binary noise dropped (0.1 + 0.2 is 0.3, a sum of money
+    503042.0600000001 is 503042.06), a whole number as an int.
+
+    Kept: SIGNIFICANT digits, and never fewer than two decimals, so that the cents of a large
+    sum survive; a tiny number keeps its digits (rounding to fixed decimals would zero it).
+    Whole values past 2**53 stay floats: as ints they would print digits the float never held.
+    """
+    if not math.isfinite(value) or value == 0:
+        return 0 if value == 0 else value          # -0.0 is 0
+    before_point = math.floor(math.log10(abs(value))) + 1
+    rounded = round(value, max(SIGNIFICANT - before_point, 2))
+    if rounded.is_integer() and abs(rounded) < 2 ** 53:
+        return int(rounded)
+    return rounded
 
 
 def norm(value) -> tuple:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from ..answers import tidy
+
 EIGHTHS = " ▏▎▍▌▋▊▉"
 LABEL_MOST = 18
 
@@ -41,8 +43,7 @@ def _bar(cells: float) -> str:
 
 
 def _number(value) -> str:
-    if isinstance(value, float):
-        return f"{value:,.2f}"
-    if isinstance(value, int) and not isinstance(value, bool):
-        return f"{value:,}"
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        # the value as the answer gives it (no fixed 2 decimals: 0.0004 is not 0.00)
+        return f"{tidy(value) if isinstance(value, float) else value:,}"
     return "(missing)" if value is None else str(value)
