@@ -9,12 +9,13 @@ much each reading should be trusted.
 from __future__ import annotations
 
 import datetime
+import time
 from collections import defaultdict
 from dataclasses import dataclass, field
 
 from rapidfuzz import fuzz
 
-from .errors import QuestionError
+from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table
 from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
 from .rules import OPERATORS
@@ -24,6 +25,19 @@ MAX_QUESTION = 2000      # characters; longer questions are cut, and the result 
 MAX_NGRAM = 6
 FLOATING_VALUES = 12     # a column with at most this many values offers them without a mention
 UNEXPLAINED_WORDS = 6    # words a floating value may stand on (a long question would multiply them)
+MAX_HEADER = 1000        # characters of a header matched against a question; a longer one is cut
+MAX_CELL = 1000          # characters of a cell matched; no mention names a longer cell whole
+
+
+class OutOfTime(QueryError):
+    """The question's deadline passed while its words were being matched to the table."""
+
+
+def _in_time(deadline: float | None) -> None:
+    """Stop the analysis once the question's deadline has passed (checked between steps of
+    the loops whose length the table sets: columns, cells, question words)."""
+    if deadline is not None and time.monotonic() >= deadline:
+        raise OutOfTime("the question ran past its time limit")
 
 
 @dataclass(frozen=True)
@@ -53,8 +67,9 @@ class Analysis:
     cache: dict = field(default_factory=dict)   # per-question memo of feature dicts
 
 
-def analyse(question: str, table: Table) -> Analysis:
-    """Find every reading of the question's words against this table."""
+def analyse(question: str, table: Table, deadline: float | None = None) -> Analysis:
+    """Find every reading of the question's words against this table; past `deadline` (a
+    time.monotonic() value), raise OutOfTime."""
     text = question.replace("\x00", " ").strip()
     if not text or not any(ch.isalnum() for ch in text):
         raise QuestionError("the question is empty: ask something about the table")
@@ -62,8 +77,8 @@ def analyse(question: str, table: Table) -> Analysis:
     words = read_question(text[:MAX_QUESTION])
     content = set(_content_tokens(words, table))
     atoms: dict[str, list[Atom]] = defaultdict(list)
-    col_match, spans = _column_mentions(words, table, content, atoms)
-    _value_mentions(words, table, content, col_match, spans, atoms)
+    col_match, spans = _column_mentions(words, table, content, atoms, deadline)
+    _value_mentions(words, table, content, col_match, spans, atoms, deadline)
     _number_mentions(words, table, content, spans, atoms)
     atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content)
     for slot, names in OPERATORS.items():
@@ -78,8 +93,8 @@ def analyse(question: str, table: Table) -> Analysis:
 
 def _content_tokens(words: Words, table: Table) -> frozenset[int]:
     ids = {stem(w) for col in table.columns if _is_id(col, table)
-           for w in split_words(col.header.replace("_", " ")) if w not in ("id", "no", "number")}
-    headers = {stem(w) for col in table.columns for w in split_words(col.header.replace("_", " "))}
+           for w in split_words(_header_text(col)) if w not in ("id", "no", "number")}
+    headers = {stem(w) for col in table.columns for w in split_words(_header_text(col))}
     title = {stem(w) for w in split_words(table.title.replace("_", " "))} - headers
     row_nouns = ({stem(w) for w in ROW_NOUNS} - headers) | title | ids
     cue_stems = {stem(w) for w in CUE_WORDS}
@@ -153,9 +168,12 @@ UNIT_WORDS = {"mm", "cm", "m", "km", "g", "kg", "lb", "lbs", "eur", "usd", "gbp"
               "total", "amount", "value"}
 
 
-def _column_mentions(words, table, content, atoms):
+def _column_mentions(words, table, content, atoms, deadline=None):
     stems = [t.stem for t in words.tokens]
-    found = {col.name: _match_header(_header_words(col), stems, words) for col in table.columns}
+    found = {}
+    for col in table.columns:
+        _in_time(deadline)
+        found[col.name] = _match_header(_header_words(col), stems, words)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
         if quality == "synonym" and any(c == name for c, _ in values.get(
@@ -178,10 +196,17 @@ def _column_mentions(words, table, content, atoms):
 
 def _header_words(col: Column) -> tuple[list[str], set[str]]:
     """The stems of a header, and those of them that must be said for an exact mention."""
-    words = split_words(col.header.replace("_", " ")) or split_words(col.base.replace("_", " "))
+    words = split_words(_header_text(col)) or split_words(col.base.replace("_", " "))
     stems = [stem(w) for w in words]
     core = {stem(w) for w in words if w not in UNIT_WORDS} or set(stems)
     return stems, core
+
+
+def _header_text(col: Column) -> str:
+    """A header's words as the question may say them. A header can be a whole paragraph (or a
+    misread cell): its first MAX_HEADER characters are matched, so it cannot slow every
+    question down."""
+    return col.header[:MAX_HEADER].replace("_", " ")
 
 
 def _match_header(header: tuple[list[str], set[str]], stems: list[str], words: Words):
@@ -258,13 +283,17 @@ def _value_index(table: Table) -> dict:
         if col.kind not in ("text", "bool") or col.view is not None:
             continue
         for value in col.values:
-            norm = normalise(str(value))
+            text = str(value)
+            norm = normalise(text[:MAX_CELL])
             if not norm:
                 continue
-            exact[norm].append((col.name, value))
+            whole = len(text) <= MAX_CELL   # a longer cell is found by the words it starts with
+            if whole:
+                exact[norm].append((col.name, value))
             vstems = tuple(stem(w) for w in split_words(norm))
             if vstems:
-                by_stem[" ".join(vstems)].append((col.name, value))
+                if whole:
+                    by_stem[" ".join(vstems)].append((col.name, value))
                 for w in set(vstems):
                     by_word[w].append((col.name, value, vstems))
     index = {"exact": exact, "stem": by_stem, "word": by_word}
@@ -272,7 +301,7 @@ def _value_index(table: Table) -> dict:
     return index
 
 
-def _value_mentions(words, table, content, col_match, col_spans, atoms):
+def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline=None):
     index = _value_index(table)
     tokens = words.tokens
     found: dict[tuple, Atom] = {}
@@ -293,6 +322,7 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms):
             if col.kind == "text" and col.view is None:
                 add("CONTAINS", (col.name, text), (at, at + 1), "quoted")
     for i in range(len(tokens)):
+        _in_time(deadline)
         for j in range(i + 1, min(len(tokens), i + MAX_NGRAM) + 1):
             span_tokens = tokens[i:j]
             if not any(k in content for k in range(i, j)) and j - i == 1 and tokens[i].stop:
@@ -308,7 +338,7 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms):
                 for col, value in index["stem"].get(stems, []):
                     add("ENTITY", (col, value), (i, j), "stem")
             _partial(index, span_tokens, stems, (i, j), content, add)
-    _fuzzy(index, tokens, content, found, add)
+    _fuzzy(index, tokens, content, found, add, deadline)
     _floating(table, words, found, col_match, col_spans, content, atoms)
     for atom in found.values():
         atoms[atom.slot].append(atom)
@@ -344,7 +374,7 @@ def _partial(index, span_tokens, stems, span, content, add):
             add("CONTAINS", (col, text), span, "partial")
 
 
-def _fuzzy(index, tokens, content, found, add):
+def _fuzzy(index, tokens, content, found, add, deadline=None):
     """Misspelt or differently written cell values, only for words nothing else explained."""
     taken = {i for a in found.values() if a.span for i in range(*a.span)}
     values = index["exact"]
@@ -352,6 +382,7 @@ def _fuzzy(index, tokens, content, found, add):
         return
     keys = list(values)
     for i in range(len(tokens)):
+        _in_time(deadline)
         for j in (i + 1, i + 2, i + 3):
             if j > len(tokens) or not all(k in content and k not in taken for k in range(i, j)):
                 continue

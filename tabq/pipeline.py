@@ -8,21 +8,23 @@ import time
 from dataclasses import dataclass, field
 
 from . import logic as L
-from .analyse import Analysis, analyse
+from .analyse import Analysis, OutOfTime, analyse
 from .answers import Denotation
 from .derive import PAIR_BEAM, Item, derive
+from .errors import QueryError
 from .execute import run_many
 from .features import ANSWER_FEATURES, answer_score_bound
-from .table import Table
+from .table import ReadReport, Table
 from .model import Model
 from .sql import render
 
 EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
 UNSURE = 0.5            # below this share of probability the top answer is flagged
-QUESTION_SECONDS = 20.0  # all the queries of one question; past it, the best found so far, flagged
+QUESTION_SECONDS = 20.0  # one whole question, analysis included; past it, the best so far, flagged
 BATCH = 20              # candidates executed between two checks of whether the rest can matter
 SETTLED = 3             # distinct readings that must come out exactly as if all were executed
 MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
+MAX_LABEL = 80          # characters of a header shown in a reading (a header can be a whole cell)
 
 
 @dataclass
@@ -48,6 +50,12 @@ class Result:
     candidates: list[Reading]        # every executed candidate, best first
     notes: list[str] = field(default_factory=list)
     complete: bool = True            # false when the time limit stopped the search early
+    table: Table | None = field(default=None, repr=False, compare=False)   # the table asked
+
+    @property
+    def read(self) -> ReadReport | None:
+        """How the table's file was read: what was left out or guessed before any answer."""
+        return self.table.report if self.table is not None else None
 
     @property
     def best(self) -> Reading | None:
@@ -82,10 +90,11 @@ class OpenTable:
 
     def label(self, name: str) -> str:
         col = self.table.column(name)
-        return col.header + (f" ({col.view})" if col.view else "")
+        header = col.header if len(col.header) <= MAX_LABEL else col.header[:MAX_LABEL - 1] + "…"
+        return header + (f" ({col.view})" if col.view else "")
 
-    def analyse(self, question: str) -> Analysis:
-        return analyse(question, self.table)
+    def analyse(self, question: str, deadline: float | None = None) -> Analysis:
+        return analyse(question, self.table, deadline)
 
     def ask(self, question: str, execute: int = EXECUTE,
             seconds: float = QUESTION_SECONDS, pair_beam: int = PAIR_BEAM) -> Result:
@@ -97,12 +106,20 @@ class OpenTable:
         answers (`features.answer_score_bound`). So the answer is the one running them all
         would give under the same model. `pair_beam` widens the search of two-sided
         conditions (teaching does, where a new word's reading may rank low before it is learned).
+
+        `seconds` bounds the whole question from the moment it is asked: reading its words
+        against the table, the search and the queries. Past it, the readings checked by then
+        are returned, flagged (`complete` is false); when none was, a QueryError says so.
         """
-        started = time.monotonic()
-        analysis = self.analyse(question)
+        deadline = time.monotonic() + seconds
+        try:
+            analysis = self.analyse(question, deadline)
+        except OutOfTime:
+            raise _too_slow(seconds, "matching its words to the table") from None
         items = derive(analysis, self.model, pair_beam=pair_beam)[:execute]
+        if items and time.monotonic() >= deadline:
+            raise _too_slow(seconds, "looking for readings")
         bound = answer_score_bound(analysis, self.model)
-        deadline = started + seconds
         candidates: list[Reading] = []
         complete = True
         for start in range(0, len(items), BATCH):
@@ -117,13 +134,15 @@ class OpenTable:
                     candidates.append(self._reading(analysis, item, den))
             if not complete:
                 break
+        if not complete and not candidates:
+            raise _too_slow(seconds, "running its queries")
         candidates.sort(key=lambda r: -r.score)
         readings = _distinct_answers(candidates)
         notes = ["the question was cut to its first 2000 characters"] if analysis.truncated else []
         if not complete:
             notes.append(f"stopped at the {seconds:g} s limit: the best of the {len(candidates)} "
                          f"readings checked by then, of {len(items)}")
-        return Result(question, readings, candidates, notes, complete)
+        return Result(question, readings, candidates, notes, complete, self.table)
 
     def _reading(self, analysis: Analysis, item: Item, den: Denotation) -> Reading:
         feats = item.features()
@@ -140,6 +159,13 @@ class OpenTable:
         if form not in cache:
             cache[form] = L.paraphrase(form, self.label)
         return cache[form]
+
+
+def _too_slow(seconds: float, doing: str) -> QueryError:
+    """Past the limit with no reading checked: an error, since "no reading fits" would be
+    untrue."""
+    return QueryError(f"the question ran past its {seconds:g} s limit while {doing}, before any "
+                      "reading was checked")
 
 
 def _key(table: Table, den: Denotation) -> tuple:
