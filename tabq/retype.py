@@ -8,12 +8,14 @@ distinct text is handled once, in Python, and a small mapping table joined back 
 from __future__ import annotations
 
 import datetime
+import functools
 import re
 import unicodedata
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import dataclass, field
 
 from . import values
-from .table import ROW, TABLE, VALUE_CAP, Con, ident, literal
+from .table import ROW, TABLE, VALUE_CAP, ColumnRead, Con, ReadReport, ident, literal
 
 VIEW_SHARE = 0.7             # share of a text column's real cells that must parse to get a view
 
@@ -138,16 +140,89 @@ def _sql_cast(pattern: re.Pattern, sql_type: str) -> str:
             f"THEN TRY_CAST({{e}} AS {sql_type}) END")
 
 
-# How a text column can be retyped, tried in order: (kind, DuckDB type, Python converter for
-# the distinct texts, SQL converter for columns too varied to convert in Python; {e} = the text).
-_RETYPES = (
-    ("number", "BIGINT", _to_int, _sql_cast(_INT_RE, "BIGINT")),
-    ("number", "DOUBLE", _to_float, _sql_cast(_FLOAT_RE, "DOUBLE")),
-    ("date", "DATE", _to_date, _sql_cast(_DATE_RE, "DATE")),
-    ("date", "TIMESTAMP", _to_stamp, _sql_cast(_STAMP_RE, "TIMESTAMP")),
-    ("bool", "BOOLEAN", _to_bool,
-     "CASE lower({e}) WHEN 'true' THEN true WHEN 'false' THEN false END"),
+@dataclass(frozen=True)
+class _Retype:
+    """One way a text column can be retyped: a Python converter for its distinct texts, the same
+    in SQL for columns too varied to convert in Python ({e} = the text), and how to say it."""
+
+    kind: str
+    sql_type: str
+    convert: Callable[[str], object]
+    sql: str
+    how: str = ""
+
+
+# Clean values, tried first and in order: a column of them needs no reading choice.
+_STRICT = (
+    _Retype("number", "BIGINT", _to_int, _sql_cast(_INT_RE, "BIGINT")),
+    _Retype("number", "DOUBLE", _to_float, _sql_cast(_FLOAT_RE, "DOUBLE")),
+    _Retype("date", "DATE", _to_date, _sql_cast(_DATE_RE, "DATE")),
+    _Retype("date", "TIMESTAMP", _to_stamp, _sql_cast(_STAMP_RE, "TIMESTAMP")),
+    _Retype("bool", "BOOLEAN", _to_bool,
+            "CASE lower({e}) WHEN 'true' THEN true WHEN 'false' THEN false END"),
 )
+
+
+@dataclass(frozen=True)
+class Hints:
+    """What the file as a whole says about its numbers and dates, for columns that do not."""
+
+    decimal: str | None = None      # "." or ",", from the reader's look at the whole file
+    dayfirst: bool | None = None
+
+
+def _retypes(texts: list[str], hints: Hints) -> tuple[_Retype, ...]:
+    """The strict retypes, then formatted amounts and numeric dates read the way this column's
+    own cells settle it (else the file's way, else the common default)."""
+    mark = values.decimal_mark(texts) or hints.decimal or "."
+    order = values.numeric_date_order(texts)
+    dayfirst = order if order is not None else bool(hints.dayfirst)
+    return _STRICT + (
+        _Retype("number", "DOUBLE", functools.partial(values.parse_amount, decimal=mark),
+                _amount_sql(mark), _amount_how(texts, mark)),
+        _Retype("date", "DATE", functools.partial(values.parse_numeric_date, dayfirst=dayfirst),
+                _numeric_date_sql(dayfirst),
+                ("day first" if dayfirst else "month first")
+                + ("" if order is not None else " (guessed: no cell settles it)")),
+    )
+
+
+def _amount_how(texts: list[str], mark: str) -> str:
+    """The formatting an amount column carried, in words, for the report."""
+    sample = " ".join(texts[:200])
+    found = [("decimal comma", mark == ","), ("currency", bool(_MONEY.search(sample))),
+             ("brackets for negatives", "(" in sample), ("percent", "%" in sample)]
+    return ", ".join(what for what, present in found if present) or "thousands separators"
+
+
+_MONEY = re.compile(r"[$€£¥₹₽₩₺₪₴₦฿]|\b[A-Z]{3}\b")
+
+
+def _amount_sql(mark: str) -> str:
+    """values.parse_amount in SQL, for columns too varied to convert in Python."""
+    pattern = literal(values.amount_pattern(mark))
+    part = "regexp_extract({e}, " + pattern + ", {g})"
+    groups = {name: part.replace("{g}", str(g)) for g, name in enumerate(
+        ("open", "sign", "sign2", "num", "percent", "trail", "close"), 1)}
+    digits = f"regexp_replace({groups['num']}, '[^0-9{re.escape(mark)}]', '', 'g')"
+    number = f"TRY_CAST(replace({digits}, '{mark}', '.') AS DOUBLE)"
+    negative = (f"({groups['open']} <> '' OR {groups['trail']} <> '' OR "
+                f"{groups['sign']} IN ('-', '−') OR {groups['sign2']} IN ('-', '−'))")
+    fits = (f"regexp_full_match({{e}}, {pattern}) AND ({groups['open']} = '') = "
+            f"({groups['close']} = '') AND NOT ({groups['sign']} <> '' AND {groups['sign2']} <> '')")
+    return f"CASE WHEN {fits} THEN CASE WHEN {negative} THEN -{number} ELSE {number} END END"
+
+
+def _numeric_date_sql(dayfirst: bool) -> str:
+    """values.parse_numeric_date in SQL."""
+    pattern = literal(r"([0-9]{1,2})([-/.])([0-9]{1,2})[-/.]([0-9]{4})")
+    day, month = (1, 3) if dayfirst else (3, 1)
+    part = "regexp_extract({e}, " + pattern + ", {g})"
+    iso = (f"printf('%s-%02d-%02d', {part.replace('{g}', '4')}, "
+           f"TRY_CAST({part.replace('{g}', str(month))} AS INT), "
+           f"TRY_CAST({part.replace('{g}', str(day))} AS INT))")
+    return (f"CASE WHEN regexp_full_match({{e}}, {pattern}) AND {part.replace('{g}', '2')} IN "
+            f"('-', '/', '.') THEN TRY_CAST({iso} AS DATE) END")
 
 
 # values.PLACEHOLDERS as a DuckDB list literal (this module's constants, not user text).
@@ -156,7 +231,7 @@ _PLACEHOLDERS = "[" + ", ".join(literal(p) for p in sorted(values.PLACEHOLDERS))
 
 # The columns of the mapping table `_m`: which column, which raw text, and what it becomes.
 _MAPPED = {"col": "INTEGER", "k": "VARCHAR", "text": "VARCHAR", **_VIEW_TYPES,
-           **{f"as_{t}": t for _, t, _, _ in _RETYPES}}
+           **{f"as_{r.sql_type}": r.sql_type for r in _STRICT}}
 
 
 @dataclass
@@ -173,10 +248,15 @@ class Plan:
     distinct: int = 0
     values: tuple[str, ...] = ()
     views: tuple[str, ...] = ()     # "number", "number2", "date", "year" columns it carries
+    parsed: dict[str, float] = field(default_factory=dict)   # view → share of cells it read
+    how: str = ""                   # the reading choice a retyped column needed, in words
 
 
-def build(con: Con, headers: list[str]) -> tuple[list[Plan], int]:
-    """Staging table in; TABLE out, with how each column was made and the row count."""
+def build(con: Con, headers: list[str], report: ReadReport) -> tuple[list[Plan], int]:
+    """Staging table in; TABLE out, with how each column was made and the row count. How each
+    column was read goes into `report`, whose decimal mark also guides columns that do not
+    settle their own."""
+    hints = Hints(report.decimal_mark, report.decimal_mark == "," or None)
     described = con.execute("DESCRIBE _src").fetchall()
     headers = [values.clean_cell(h) or "" for h in headers]
     headers = (headers + [""] * len(described))[: len(described)]
@@ -194,17 +274,27 @@ def build(con: Con, headers: list[str]) -> tuple[list[Plan], int]:
     raw = {i: _as_text(refs[i], described[i][1]) for i in texts}
     for i, (distinct, rows) in _value_counts(con, raw).items():
         if distinct > VIEW_DISTINCT_CAP:
-            plans[i] = _varied_text_plan(con, headers[i], names[i], raw[i])
+            plans[i] = _varied_text_plan(con, headers[i], names[i], raw[i], hints)
         else:
             views = described[i][1] in ("VARCHAR", "JSON") or described[i][1].startswith("ENUM")
-            plans[i] = _text_plan(i, headers[i], names[i], raw[i], rows, views, mapping)
+            plans[i] = _text_plan(i, headers[i], names[i], raw[i], rows, views, mapping,
+                                  hints)
     ordered = [plans[i] for i in range(len(described))]
     # A column with neither a header nor a cell is spreadsheet padding, not data.
     ordered = [p for p in ordered if p.header or p.nonnull] or ordered[:1]
     _write_table(con, ordered, mapping)
     row_count = con.execute(f"SELECT count(*) FROM {TABLE}").fetchone()[0]
     _categories_as_enums(con, ordered, row_count)
+    report.columns = [read for plan in ordered for read in _reads(plan)]
+    report.guesses += [f"{p.header or p.name}: {p.how}" for p in ordered if "guessed" in p.how]
     return ordered, row_count
+
+
+def _reads(plan: Plan) -> list[ColumnRead]:
+    """How a column was read: the column itself, then each typed view with its parse share."""
+    reads = [ColumnRead(plan.header, plan.name, plan.kind, how=plan.how)]
+    return reads + [ColumnRead(plan.header, f"{plan.name}__{view}", VIEW_KINDS[view], share)
+                    for view, share in plan.parsed.items()]
 
 
 def _as_text(ref: str, sql_type: str) -> str:
@@ -237,7 +327,7 @@ def _value_counts(con: Con,
 
 
 def _text_plan(i: int, header: str, name: str, raw: str, rows: list[tuple[str, int, int]],
-               views: bool, mapping: dict[str, list]) -> Plan:
+               views: bool, mapping: dict[str, list], hints: Hints) -> Plan:
     """A text column of at most VIEW_DISTINCT_CAP distinct texts, decided in Python on those
     texts: trimmed, retyped if every real cell is a clean value, else given typed views. What a
     raw text becomes is added to `mapping` (parallel lists), joined when TABLE is written."""
@@ -253,17 +343,20 @@ def _text_plan(i: int, header: str, name: str, raw: str, rows: list[tuple[str, i
     alias = f"_m{i}"
     join = f"LEFT JOIN _m AS {alias} ON {alias}.col = {i} AND {alias}.k = {raw}"
     # Placeholders ("—", "n/a", "NA") are missing values: they do not keep a number column text.
-    for kind, sql_type, convert, _ in _RETYPES:
-        converted = _convert_all(convert, real)
+    for retype in _retypes(real, hints):
+        converted = _convert_all(retype.convert, real)
         if converted is not None:
             keys = [text for text, c in clean.items() if c in converted]
-            _add_mapping(mapping, i, keys, {f"as_{sql_type}": [converted[clean[k]] for k in keys]})
-            return Plan(header, name, kind, f"{alias}.as_{sql_type}", alias, join,
-                         nonnull=sum(counts[c][0] for c in real))
-    found = derive_views([(c, counts[c][0]) for c in order]) if views else {}
+            column = f"as_{retype.sql_type}"
+            _add_mapping(mapping, i, keys, {column: [converted[clean[k]] for k in keys]})
+            return Plan(header, name, retype.kind, f"{alias}.{column}", alias, join,
+                        nonnull=sum(counts[c][0] for c in real), how=retype.how)
+    weights = [(c, counts[c][0]) for c in order]
+    found = derive_views(weights) if views else {}
     # a placeholder in a text column is a missing cell too, so "no sex recorded" finds it
     plan = Plan(header, name, "text", raw, nonnull=sum(counts[c][0] for c in real),
-                 distinct=len(real), values=tuple(real[:VALUE_CAP]), views=tuple(found))
+                distinct=len(real), values=tuple(real[:VALUE_CAP]), views=tuple(found),
+                parsed={view: _share(parsed, weights) for view, parsed in found.items()})
     if found or len(real) < len(order) or any(text != c for text, c in clean.items()):
         keys = [text for text, c in clean.items() if c is not None]
         cells = [clean[k] for k in keys]
@@ -272,6 +365,13 @@ def _text_plan(i: int, header: str, name: str, raw: str, rows: list[tuple[str, i
             view: [parsed.get(c) for c in cells] for view, parsed in found.items()}})
         plan.expr, plan.alias, plan.join = f"{alias}.text", alias, join
     return plan
+
+
+def _share(parsed: dict[str, object], weights: list[tuple[str, int]]) -> float:
+    """The share of a column's real cells that a view parsed."""
+    real = [(text, n) for text, n in weights if not values.is_placeholder(text)]
+    total = sum(n for _, n in real)
+    return sum(n for text, n in real if text in parsed) / total if total else 0.0
 
 
 def _convert_all(convert, texts: list[str]) -> dict[str, object] | None:
@@ -292,7 +392,7 @@ def _add_mapping(mapping: dict[str, list], col: int, keys: list[str],
                       cells.get(name, [None] * len(keys)))
 
 
-def _varied_text_plan(con: Con, header: str, name: str, raw: str) -> Plan:
+def _varied_text_plan(con: Con, header: str, name: str, raw: str, hints: Hints) -> Plan:
     """A text column with more than VIEW_DISTINCT_CAP distinct texts (ids, free text): trimmed,
     placeholders made missing and retyped in SQL, profiled from its distinct texts, and given no
     views (parsing each of its texts in Python would cost seconds). Trimming and the placeholder
@@ -311,16 +411,17 @@ def _varied_text_plan(con: Con, header: str, name: str, raw: str) -> Plan:
                                     ).fetchone()
     text = _trimmed(raw) if trimmed else raw
     # The most frequent texts rule most types out at once; SQL checks the others on every text.
-    for kind, _, convert, sql in _RETYPES:
-        if not top or _convert_all(convert, top) is None:
+    for retype in _retypes(top, hints):
+        if not top or _convert_all(retype.convert, top) is None:
             continue
-        misfits = f"SELECT count(*) {real} AND ({sql.replace('{e}', 'v')}) IS NULL"
+        misfits = f"SELECT count(*) {real} AND ({retype.sql.replace('{e}', 'v')}) IS NULL"
         if not con.execute(misfits).fetchone()[0]:
-            return Plan(header, name, kind, sql.replace("{e}", text), nonnull=nonnull)
+            return Plan(header, name, retype.kind, retype.sql.replace("{e}", text),
+                        nonnull=nonnull, how=retype.how)
     if missing:
         text = f"CASE WHEN list_contains({_PLACEHOLDERS}, lower({text})) THEN NULL ELSE {text} END"
     return Plan(header, name, "text", text, nonnull=nonnull, distinct=distinct,
-                 values=tuple(top))
+                values=tuple(top))
 
 
 def _trimmed(expr: str) -> str:

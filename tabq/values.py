@@ -181,3 +181,91 @@ def parse_year(text: str | None) -> int | None:
         if YEAR_MIN <= year <= YEAR_MAX:
             return year
     return None
+
+
+# ---------------------------------------------------------------- formatted amounts
+
+# Currency signs and codes a money cell may carry before or after its number. Codes are listed,
+# not any three letters, so "12 pcs" stays text. Case is ignored.
+_CURRENCY = (r"[$€£¥₹₽₩₺₪₴₦฿]|r\$|us\$|fr\.|kr\.?|zł|kč|руб\.?|"
+             r"usd|eur|gbp|jpy|chf|cad|aud|nzd|sek|nok|dkk|pln|czk|huf|rub|uah|inr|cny|rmb|hkd|"
+             r"sgd|krw|brl|mxn|zar|try|ils|aed|sar")
+_GROUPED = {   # a number with its thousands grouped, by decimal mark; RE2 and Python alike
+    ".": r"[0-9]{1,3}(?:[,' \x{a0}\x{202f}\x{2009}][0-9]{3})+(?:\.[0-9]+)?",
+    ",": r"[0-9]{1,3}(?:[. \x{a0}\x{202f}\x{2009}][0-9]{3})+(?:,[0-9]+)?",
+}
+_PLAIN = {".": r"[0-9]+(?:\.[0-9]+)?|\.[0-9]+", ",": r"[0-9]+(?:,[0-9]+)?|,[0-9]+"}
+
+
+def amount_pattern(decimal: str) -> str:
+    """The shape of a whole cell that is one amount written with `decimal` as its decimal mark:
+    "$1,234.50", "(1,200.00)", "1.234,50 €", "-12,5 %", "EUR 300", "1 200-". Groups: open,
+    sign, num, percent, trail, close. Valid in Python's re (after `python_pattern`) and RE2."""
+    number = f"(?P<num>{_GROUPED[decimal]}|{_PLAIN[decimal]})"
+    money = f"(?:{_CURRENCY})"
+    return (r"(?i)^(?P<open>\()?\s*(?P<sign>[-+−])?\s*" + f"{money}?" + r"\s*(?P<sign2>[-+−])?\s*"
+            + number + r"\s*" + f"{money}?" + r"\s*(?P<percent>%)?\s*(?P<trail>-)?\s*(?P<close>\))?$")
+
+
+def python_pattern(pattern: str) -> str:
+    """An RE2 pattern as Python's re spells it (RE2 writes code points as \\x{…})."""
+    return re.sub(r"\\x\{([0-9a-f]+)\}", lambda m: f"\\u{int(m[1], 16):04x}", pattern)
+
+
+_AMOUNT = {mark: re.compile(python_pattern(amount_pattern(mark))) for mark in _GROUPED}
+_NOT_DIGIT = re.compile(r"[^0-9]")
+
+
+def parse_amount(text: str | None, decimal: str = ".") -> float | None:
+    """A cell that is one amount: "$1,234.50" → 1234.5, "(1,200.00)" → -1200, "1.234,50 €" →
+    1234.5 with decimal ",", "12.5%" → 12.5 (percentages keep the number written). None if the
+    cell is anything else, or its brackets or signs do not pair up."""
+    m = _AMOUNT[decimal].match(text.strip(SPACES)) if text else None
+    if not m or bool(m["open"]) != bool(m["close"]) or (m["sign"] and m["sign2"]):
+        return None
+    whole, _, fraction = m["num"].partition(decimal)
+    value = float(_NOT_DIGIT.sub("", whole or "0") + "." + (fraction or "0"))
+    negative = (m["sign"] or m["sign2"] or "+") in "-−" or bool(m["open"]) or bool(m["trail"])
+    return -value if negative else value
+
+
+def decimal_mark(texts: list[str]) -> str | None:
+    """Which decimal mark the numbers in these texts use, "." or ",", from the cells that settle
+    it ("1.234,50", "12,5", "1,234,567"); None when none does ("1,234" and "7" fit both)."""
+    votes = {".": 0, ",": 0, None: 0}
+    for text in texts:
+        for m in _SETTLING.finditer(text):
+            votes[_settles(m.group())] += 1
+    if votes["."] == votes[","]:
+        return None
+    return "." if votes["."] > votes[","] else ","
+
+
+_SETTLING = re.compile(r"[0-9][0-9.,]*[.,][0-9]+")
+
+
+def _settles(number: str) -> str | None:
+    """The decimal mark one written number shows, if it shows one."""
+    if "." in number and "," in number:
+        return "," if number.rfind(",") > number.rfind(".") else "."
+    mark = "." if "." in number else ","
+    if number.count(mark) > 1:   # repeated, it groups thousands: "1.234.567", not "01.02.2026"
+        groups = number.split(mark)
+        if len(groups[0]) <= 3 and all(len(g) == 3 for g in groups[1:]):
+            return "," if mark == "." else "."
+        return None
+    return None if len(number) - number.rfind(mark) - 1 == 3 else mark
+
+
+_NUMERIC_DATE_CELL = re.compile(r"([0-9]{1,2})([-/.])([0-9]{1,2})\2([0-9]{4})")
+
+
+def parse_numeric_date(text: str | None, dayfirst: bool) -> datetime.date | None:
+    """A cell that is only an all-numeric date, "13/03/2026" or "03-13-2026", read day first or
+    month first as the column's own cells decided (see numeric_date_order)."""
+    m = _NUMERIC_DATE_CELL.fullmatch(text.strip(SPACES)) if text else None
+    if not m:
+        return None
+    a, b, year = int(m[1]), int(m[3]), int(m[4])
+    day, month = (a, b) if dayfirst else (b, a)
+    return _make_date(year, month, day)

@@ -167,7 +167,8 @@ def test_typed_views_exist(messy):
     assert kinds["race_day__date"] == ("date", "race_day", "date")
     assert kinds["season__year"] == ("number", "season", "year")
     assert kinds["place__number"] == ("number", "place", "number")
-    assert kinds["fee__number"] == ("number", "fee", "number")
+    # every real cell of Fee is one amount ("$1,020", "−5"): the column itself is a number
+    assert kinds["fee"] == ("number", "fee", None) and "fee__number" not in kinds
     assert "race_day__number" not in kinds       # a date column gets only its date view
     assert "runner__number" not in kinds
     assert messy.column("distance__number").header == "Distance"
@@ -175,7 +176,7 @@ def test_typed_views_exist(messy):
 
 def test_typed_view_values(messy):
     got = rows(messy, f"SELECT distance__number, result__number, result__number2, race_day__date, "
-                      f"season__year, place__number, fee__number FROM {TABLE} ORDER BY {ROW}")
+                      f"season__year, place__number, fee FROM {TABLE} ORDER BY {ROW}")
     d = datetime.date
     assert got == [
         (8.9, 2, 1, d(1944, 3, 26), 2006, 4, 7169),
@@ -285,7 +286,8 @@ def test_tsv_and_semicolons(tmp_path):
     tsv = load_table(write(tmp_path / "a.tsv", "x\ty\n1\tAda\n2\tBo\n"))
     assert names(tsv) == ["x", "y"] and tsv.row_count == 2
     semi = load_table(write(tmp_path / "b.csv", 'x;y\n1;"7,5"\n'))
-    assert rows(semi, f"SELECT x, y FROM {TABLE}") == [(1, "7,5")]
+    # "7,5" settles its column's decimal mark: a comma, so the cell is the number 7.5
+    assert rows(semi, f"SELECT x, y FROM {TABLE}") == [(1, 7.5)]
 
 
 def test_header_only_csv(tmp_path):
@@ -571,3 +573,60 @@ def test_palmer_penguins_against_pandas():
     assert bill.maximum == pytest.approx(frame["bill_length_mm"].max())
     got = rows(table, f"SELECT species, count(*) FROM {TABLE} GROUP BY 1")
     assert dict(got) == frame["species"].value_counts().to_dict()
+
+
+# ---------------------------------------------------------------- formatted amounts and dates
+
+
+@pytest.mark.parametrize("text, mark, value", [
+    ("$1,234.50", ".", 1234.5), ("(1,200.00)", ".", -1200.0), ("1.234,50 €", ",", 1234.5),
+    ("-12,5 %", ",", -12.5), ("EUR 300", ".", 300.0), ("1 200-", ".", -1200.0),
+    ("1,234", ",", 1.234), ("€ 12,50", ",", 12.5), ("-$1,200", ".", -1200.0),
+    ("1'234.5", ".", 1234.5), ("12 pcs", ".", None), ("(5", ".", None), ("+-3", ".", None),
+])
+def test_parse_amount(text, mark, value):
+    assert values.parse_amount(text, mark) == value
+
+
+def test_decimal_mark_is_settled_by_the_cells_that_can():
+    assert values.decimal_mark(["1.234,50", "7"]) == ","
+    assert values.decimal_mark(["1,234,567", "12"]) == "."
+    assert values.decimal_mark(["1,234", "7"]) is None           # fits both readings
+    assert values.decimal_mark(["01.02.2026", "1.2.3"]) is None  # dates and versions say nothing
+
+
+# Rows whose sums are worked out here, then written in the ways exports write them.
+AMOUNTS = [1234.5, -1200.0, 12.25, 99999.0, -0.5, 3.0]
+
+
+def _european(x: float) -> str:
+    text = f"{abs(x):,.2f}".replace(",", " ").replace(".", ",").replace(" ", ".")
+    return f"-{text}" if x < 0 else text
+
+
+def _accounting(x: float) -> str:
+    return f"({abs(x):,.2f})" if x < 0 else f"${x:,.2f}"
+
+
+@pytest.mark.parametrize("cap", [None, 2])   # 2: the SQL path for very varied columns
+def test_amount_columns_are_numbers(tmp_path, monkeypatch, cap):
+    if cap:
+        monkeypatch.setattr(retype, "VIEW_DISTINCT_CAP", cap)
+    semi = "id;amount\n" + "".join(f"{i};{_european(x)}\n" for i, x in enumerate(AMOUNTS))
+    comma = "id,amount\n" + "".join(f'{i},"{_accounting(x)}"\n' for i, x in enumerate(AMOUNTS))
+    for name, text in (("eu.csv", semi), ("acc.csv", comma)):
+        table = load_table(write(tmp_path / name, text))
+        assert table.column("amount").kind == "number", name
+        (total,), = rows(table, f"SELECT sum(amount) FROM {TABLE}")
+        assert total == pytest.approx(sum(AMOUNTS)), name
+
+
+def test_numeric_dates_read_the_way_the_column_settles(tmp_path):
+    days = [datetime.date(2026, 3, d) for d in (2, 13, 28)]
+    for order, fmt in ((True, "%d/%m/%Y"), (False, "%m/%d/%Y")):
+        # "n/a" keeps DuckDB's own date sniffing out of it: tabq's retyping decides the order
+        text = "id,day\n" + "".join(f"{i},{d.strftime(fmt)}\n" for i, d in enumerate(days))
+        table = load_table(write(tmp_path / f"d{order}.csv", text + "9,n/a\n"))
+        assert rows(table, f"SELECT day FROM {TABLE} ORDER BY {ROW}") == \
+            [(d,) for d in days] + [(None,)]
+        assert ("day first" if order else "month first") in table.report.columns[1].how
