@@ -1,0 +1,99 @@
+"""Issue 15, "never answer from a misread table": tabq's answers from messy files.
+
+The corpus is benchmarks/messy/corpus.py: invented scenarios (a bakery chain's invoices, a
+clinic group's appointments, a freight depot's shipments, a tea wholesaler's, a patisserie
+supplier's and a plant nursery's orders, a farm shop's till sales) with rows from
+random.Random(seed); no outside tool's test corpus is copied. Each expected answer is computed
+from the rows before any file is written.
+
+Outside sources, used as a second computation and as writers, never as the expected answer:
+- pandas (pandas.read_csv with sep/decimal/thousands/skiprows/skipfooter/na_values/encoding/
+  converters/compression, pandas.read_excel, pandas.json_normalize, pandas.read_feather) reads
+  every file back: test_pandas_second_computation checks it gives the precomputed answers, which
+  shows the file holds the rows;
+- openpyxl writes the workbook, pyarrow.feather the Feather file, the duckdb module the DuckDB
+  database, Python's codecs the cp1251, cp1252 and UTF-16 text, gzip the .csv.gz.
+
+test_tabq_answers asks each question through the real command line (benchmarks/messy_files.py)
+with the untaught model and compares the top answer with the expected one.
+"""
+
+from __future__ import annotations
+
+import datetime
+import re
+import sys
+from pathlib import Path
+
+import pytest
+
+sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "benchmarks"))
+
+import messy_files  # noqa: E402
+from messy.corpus import (CASES, CLINIC, Case, Question, answer_from_frame,  # noqa: E402
+                          same_answer)
+
+PAIRS = [(case, question) for case in CASES for question in case.questions]
+
+
+def _pair_id(pair: tuple[Case, Question]) -> str:
+    case, question = pair
+    words = re.sub(r"\W+", "_", question.text).strip("_")
+    return f"{case.name}:{words}"
+
+
+def _runnable(case: Case) -> None:
+    """Only formats no installed library can write are skipped (zstandard, odf, xlwt)."""
+    why = case.missing()
+    if why:
+        pytest.skip(f"{case.name}: {why}")
+
+
+@pytest.fixture(scope="module")
+def model(tmp_path_factory) -> Path:
+    """A model folder that does not exist yet: tabq asks with the untaught prior."""
+    return tmp_path_factory.mktemp("messy-model") / "model"
+
+
+@pytest.mark.parametrize("case", CASES, ids=[c.name for c in CASES])
+def test_pandas_second_computation(case: Case, tmp_path: Path) -> None:
+    """pandas, second computation: pandas reading the written file gives the answers computed
+    from the rows; so the file holds the rows and a wrong tabq answer is a misreading."""
+    _runnable(case)
+    case.write(tmp_path)
+    frame = case.second(tmp_path)
+    for question in case.questions:
+        got = answer_from_frame(question, frame)
+        assert same_answer(got, question.expected), (question.text, got, question.expected)
+
+
+@pytest.mark.parametrize("pair", PAIRS, ids=[_pair_id(p) for p in PAIRS])
+def test_tabq_answers(pair: tuple[Case, Question], tmp_path: Path, model: Path) -> None:
+    case, question = pair
+    _runnable(case)
+    target = case.write(tmp_path)
+    outcome = messy_files.ask_question(case, question, tmp_path, target, model)
+    assert outcome.right, (f"{case.difficulty}: {question.text!r} wanted {question.expected}, "
+                           f"got {outcome.got} {outcome.problem}")
+    mismatch = messy_files.note_mismatch(case, outcome.payload)
+    assert mismatch is None, mismatch
+
+
+def test_every_question_has_a_clean_control() -> None:
+    """A messy case asks only what its scenario's clean CSV is asked too, so that its failure
+    is about reading the file, not about the wording."""
+    controls = {c.scenario: c for c in CASES if c.name.endswith("_clean")}
+    for case in CASES:
+        asked = {q.text for q in controls[case.scenario].questions}
+        assert {q.text for q in case.questions} <= asked, case.name
+
+
+def test_the_date_cases_tell_day_from_month() -> None:
+    """Some days are above 12 (so the order is provable) and reading the dates the other way
+    round would change the month counts: the date cases catch a swapped reading."""
+    dates = [r["appointment_date"] for r in CLINIC]
+    assert any(d.day > 12 for d in dates) and any(d.day <= 12 for d in dates)
+    swapped = [datetime.date(d.year, d.day, d.month) for d in dates if d.day <= 12]
+    for month in (3, 4):
+        right = sum(d.month == month for d in dates)
+        assert sum(d.month == month for d in swapped) != right
