@@ -4,7 +4,10 @@ The user's file is only ever read. Rows keep their file order in the hidden colu
 so that "first", "last", "next" and "previous" mean what they mean in the file.
 
 The stage runs in four steps, each its own module:
-1. `files` checks the file (exists, not empty, text or the right magic bytes) and hashes it;
+0. `inputs` turns what the user named (a file, "-" for standard input, a folder or a pattern, a
+   .gz or .zst file) into the files to read, writing only into a private temporary folder;
+1. `files` checks each file (a regular file, not empty, within the size budget, text or the
+   right magic bytes), then hashes it;
 2. a reader of `readers`, one per format, copies the rows in file order into a staging table;
 3. `retype` types, cleans and writes the columns as TABLE;
 4. `profile` measures the columns; then the connection is locked (no file access, no settings).
@@ -18,9 +21,11 @@ from pathlib import Path
 import duckdb
 
 from .errors import TableFileError, TabqError
-from .files import kind_of, one_line, read_head, shown
+from .files import one_line
+from .inputs import Given, Part, given, shown_given
 from .profile import profile, total_row
-from .readers import LISTERS, READERS
+from .readers import LISTERS, READERS, Source
+from .readers.several import read_several
 from .retype import build
 from .table import Con, Table
 
@@ -31,57 +36,82 @@ THREADS_CAP = 4              # more threads than this buy little on one table an
 
 
 def load_table(path: str | Path, table: str | None = None) -> Table:
-    """Read a CSV/TSV, Parquet, JSON-lines, Excel or SQLite file into an in-memory DuckDB table.
+    """Read a table file into an in-memory DuckDB table: CSV/TSV, Parquet, JSON lines, Excel,
+    SQLite, DuckDB or Arrow IPC, or one of these compressed (.gz, .zst); "-" for standard input;
+    a folder or a glob pattern for several files of the same columns, read as one table.
 
-    `table` names a SQLite table or an Excel sheet; other formats hold one table and ignore it.
-    Every failure is a TabqError with a one-line message that names the file.
+    `table` names a table of a database file or a sheet; other formats hold one table and ignore
+    it. Every failure is a TabqError with a one-line message that names the file.
     """
-    path = Path(path)
+    name = shown_given(path)
     try:
-        return _load(path, table)
+        with given(path) as what:
+            return _load(what, table)
     except TabqError:
         raise
     except (MemoryError, duckdb.OutOfMemoryException) as exc:
-        raise TableFileError(f"{shown(path)}: too large to load "
+        raise TableFileError(f"{name}: too large to load "
                              f"(memory limit {memory_limit() >> 20} MB)") from exc
     except Exception as exc:   # a person gets one line, never a traceback
-        raise TableFileError(f"{shown(path)}: cannot read it ({one_line(exc)})") from exc
+        raise TableFileError(f"{name}: cannot read it ({one_line(exc)})") from exc
 
 
 def table_names(path: str | Path) -> list[str]:
-    """The tables of a SQLite file or the sheets of a workbook, in the order `load_table`
-    offers them; an empty list for formats that hold one table."""
-    path = Path(path)
-    head, _ = read_head(path)
-    lister = LISTERS.get(kind_of(path, head))
-    if lister is None:
-        return []
-    try:
-        return lister(path)
-    except TabqError:
-        raise
-    except Exception as exc:   # a damaged file: one line, as load_table says it
-        raise TableFileError(f"{shown(path)}: cannot list its tables ({one_line(exc)})") from exc
+    """The tables of a database file or the sheets of a workbook, in the order `load_table`
+    offers them; an empty list for formats that hold one table, and for folders and patterns."""
+    with given(path) as what:
+        part = what.parts[0]
+        lister = LISTERS.get(part.kind)
+        if lister is None or what.several:
+            return []
+        try:
+            return lister(part.path)
+        except TabqError as exc:
+            raise type(exc)(part.unstaged(str(exc))) from None
+        except Exception as exc:   # a damaged file: one line, as load_table says it
+            raise TableFileError(f"{part.shown}: cannot list its tables "
+                                 f"({part.unstaged(one_line(exc))})") from exc
 
 
-def _load(path: Path, table: str | None) -> Table:
-    head, digest = read_head(path)
-    kind = kind_of(path, head)
+def _load(what: Given, table: str | None) -> Table:
     con = _connect()
     try:
-        source = READERS[kind](con, path, head, table)
-        source.report.format = kind
+        if what.several:
+            source = read_several(con, what.parts, table, _read_part, what.title)
+        else:
+            source = _read_part(con, what.parts[0], table)
         plans, row_count = build(con, source.headers)
         columns, last_total = profile(con, plans, row_count), total_row(con, plans, row_count)
         _lock(con)
     except BaseException:
         con.close()
         raise
+    digest = what.fingerprint()
     if source.table is not None:
         digest.update(b"\0" + source.table.encode())
-    return Table(con=con, columns=columns, row_count=row_count, path=path.absolute(),
+    return Table(con=con, columns=columns, row_count=row_count, path=what.origin,
                  title=source.title, fingerprint=digest.hexdigest(), total_row=last_total,
                  name=source.table, report=source.report)
+
+
+def _read_part(con: Con, part: Part, table: str | None) -> Source:
+    """One file by its format's reader. A reader given a private copy or link names it in
+    its messages: they are made to name the user's file."""
+    try:
+        source = READERS[part.kind](con, part.path, part.head, table)
+    except TabqError as exc:
+        if not part.staged:
+            raise
+        raise type(exc)(part.unstaged(str(exc))) from None
+    except (MemoryError, duckdb.OutOfMemoryException, duckdb.InterruptException):
+        raise
+    except Exception as exc:
+        raise TableFileError(f"{part.shown}: cannot read it "
+                             f"({part.unstaged(one_line(exc))})") from exc
+    source.report.format = part.kind
+    if source.title == part.path.stem:     # a one-table file: titled by the user's name
+        source.title = part.title
+    return source
 
 
 def _connect() -> Con:

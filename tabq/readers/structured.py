@@ -1,4 +1,8 @@
-"""structured: Parquet and JSON, formats that carry their own columns."""
+"""structured: Parquet, JSON and Arrow IPC (Feather), formats that carry their own columns.
+
+DuckDB's readers take a path with "*?[" in it as a pattern: `inputs` hands these readers a
+plain-named link instead, so the path given here is read literally.
+"""
 
 from __future__ import annotations
 
@@ -12,8 +16,8 @@ from ..files import decode, shown
 from ..table import Con
 from .staging import Source, cell_text, insert_rows, staging_names
 
-def read_parquet(con: Con, path: Path, head: bytes,
-                  table: str | None) -> Source:
+
+def read_parquet(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     con.execute("CREATE TABLE _src AS SELECT * FROM read_parquet(?)", [str(path)])
     return Source(staging_names(con), path.stem)
 
@@ -49,3 +53,25 @@ def _json_records(path: Path) -> list[dict]:
     if not all(isinstance(r, dict) for r in records):
         raise TableFileError(f"{shown(path)}: JSON rows must be objects")
     return records
+
+
+def read_arrow(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+    """An Arrow IPC file (Feather v2) or a Feather v1 file, through pyarrow when it is
+    installed: DuckDB reads Arrow IPC files only through an extension it would download."""
+    try:
+        from pyarrow import feather
+    except ImportError:
+        raise TableFileError(f"{shown(path)}: reading Arrow/Feather files needs pyarrow "
+                             "(pip install pyarrow)") from None
+    from ..load import memory_limit   # here: load imports the readers
+    size, limit = path.stat().st_size, memory_limit()
+    if size > limit:   # read outside DuckDB's memory limit: refuse what could not fit anyway
+        raise TableFileError(f"{shown(path)}: too large to load "
+                             f"(memory limit {limit >> 20} MB)")
+    arrow_table = feather.read_table(str(path), memory_map=True)   # not copied: mapped
+    con.register("_arrow", arrow_table)
+    try:
+        con.execute("CREATE TABLE _src AS SELECT * FROM _arrow")
+    finally:
+        con.unregister("_arrow")
+    return Source(staging_names(con), path.stem)
