@@ -7,6 +7,7 @@ import pandas as pd
 import pytest
 
 from tabq.store import ModelFolder
+from tabq.table import ColumnRead, ReadReport
 from tabq.ui.app import TabqApp
 from tabq.ui.chart import bar_chart, bar_rows
 from tabq.ui.session import Session, differing_rows, parse_answer
@@ -218,3 +219,29 @@ def test_no_rows_tell_apart_two_readings_of_one_meaning(demo_csv):
     alike = [c for c in result.candidates if c.answer == [10]]
     same = [c for c in alike if "labour_min" in c.sql and "Cancelled" not in c.sql][:1]
     assert differing_rows(session.open.table, [same[0].form, same[0].form]) is None
+
+
+def test_how_the_table_was_read_is_in_the_bar_and_in_full_on_the_table_tab(demo_csv, tmp_path):
+    # until the loaders fill the report, one made here stands in for a messy file's
+    report = ReadReport(format="csv", encoding="cp1252", delimiter=";", decimal_mark=",",
+                        header_line=4, guesses=["dates read day first"],
+                        columns=[ColumnRead("price", "price", "number", 0.95, "decimal comma")])
+    report.skip("preamble", [1, 2, 3])
+
+    async def run():
+        app = TabqApp(demo_csv, tmp_path / "m")
+        async with app.run_test(size=(120, 32)) as pilot:
+            await _until(pilot, lambda: app.session is not None and not app.workers)
+            app.session.open.table.report = report
+            app._loaded()
+            await pilot.pause(0.1)
+            bar = str(app._q("#bar").render())
+            assert "read (f3): 3 preamble rows left out (lines 1, 2, 3); d…" in bar
+            await pilot.press("f3")
+            await pilot.pause(0.1)
+            details = str(app._q("#read-info").render())
+            for said in ("semicolon-separated", "decimal comma", "header on line 4",
+                         "3 preamble rows left out (lines 1, 2, 3).", "Dates read day first.",
+                         "price: number, 95% of its cells read as such"):
+                assert said in details
+    asyncio.run(run())

@@ -23,7 +23,7 @@ from ..load import table_names
 from .learned import entries
 from .session import Comparison, Session, parse_answer, preview
 from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, TablePicker
-from .widgets import answer_text
+from .widgets import HEADER_MOST, answer_text, read_summary, read_text, short
 
 
 class TabqApp(App):
@@ -65,6 +65,7 @@ class TabqApp(App):
                     yield ReadingPanel(id="detail")
             with TabPane("Table", id="rows"):
                 yield Static("", id="rows-info")
+                yield Static("", id="read-info")
                 yield DataTable(id="rows-table", zebra_stripes=True)
             with TabPane("Words", id="words"):
                 yield Static("What tabq has learned each word to mean (changes from the "
@@ -139,14 +140,16 @@ class TabqApp(App):
 
         self.push_screen(TablePicker(Path(path).name, names), chosen)
 
-    def _bar(self, text: str) -> None:
-        self._q("#bar", Static).update(Text("tabq", style="bold") + Text(f"  {text}"))
+    def _bar(self, text: str, read: Text | None = None) -> None:
+        self._q("#bar", Static).update(Text("tabq", style="bold") + Text(f"  {text}")
+                                       + (read or Text("")))
 
     def _loaded(self) -> None:
         s = self.session
         t = s.open.table
         where = Path(t.path).name + (f" · {t.name}" if t.name else "")
-        self._bar(f"{where}  ·  {t.row_count} rows  ·  model {s.folder.path}")
+        self._bar(f"{where}  ·  {t.row_count} rows", read_summary(t)
+                  + Text(f"  ·  model {s.folder.path}"))
         if not self.result:
             self.say("Type a question and press enter.")
         self._fill_rows()
@@ -158,18 +161,19 @@ class TabqApp(App):
         grid = self._q("#rows-table", DataTable)
         grid.clear(columns=True)
         for c in cols:
-            grid.add_column(c.header if c.view is None else f"{c.header} → {c.view}",
-                            key=c.name)
+            header = short(c.header, HEADER_MOST)
+            grid.add_column(header if c.view is None else f"{header} → {c.view}", key=c.name)
         with self.session.lock:
             rows = preview(t, [c.name for c in cols])
         grid.add_rows([tuple("·" if v is None else str(v) for v in row) for row in rows])
-        views = [f"{c.header} → {c.view}" for c in cols if c.view]
+        views = [f"{short(c.header, HEADER_MOST)} → {c.view}" for c in cols if c.view]
         info = f"{t.row_count} rows, {len(cols) - len(views)} columns"
         if len(rows) < t.row_count:
             info += f", first {len(rows)} shown"
         info += (f"; typed views of messy columns: {', '.join(views)}" if views
                  else "; no messy columns needed typed views")
         self._q("#rows-info", Static).update(info)
+        self._q("#read-info", Static).update(read_text(t))
 
     # ── asking ─────────────────────────────────────────────────────────────────────────────
     def on_input_submitted(self, event: Input.Submitted) -> None:

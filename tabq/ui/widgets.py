@@ -15,12 +15,16 @@ from textual.widgets import Input, OptionList, Static
 from textual.widgets.option_list import Option
 
 from .. import pipeline
+from ..output import read_details
+from ..table import Table
 from .chart import bar_rows
 from .session import Comparison
 
 SQL_THEME = "native"
 METER = 8                # cells of the confidence meter
 SHOWN = 12               # distinct answers listed: a glance, not a report
+HEADER_MOST = 40         # characters of a header in the table view (a header can be a paragraph)
+READ_MOST = 44           # characters of the reading notes in the title bar
 
 
 def answer_text(reading: pipeline.Reading, most: int = 6) -> Text:
@@ -34,6 +38,28 @@ def answer_text(reading: pipeline.Reading, most: int = 6) -> Text:
     shown = ", ".join("(missing)" if v is None else str(v) for v in reading.answer[:most])
     more = f" … {len(reading.answer)} values" if len(reading.answer) > most else ""
     return Text(shown + more, style="bold #9ad0c2")
+
+
+def short(text: str, most: int) -> str:
+    """Text cut to `most` characters, the cut marked."""
+    return text if len(text) <= most else text[:most - 1] + "…"
+
+
+def read_summary(table: Table) -> Text:
+    """For the title bar: what was left out or guessed in reading the file, if anything; the key
+    to the full list first, so a narrow terminal cuts the notes, not the way to them."""
+    notes = table.report.notes() if table.report is not None else []
+    if not notes:
+        return Text("")
+    return Text("  ·  read (f3): ") + Text(short("; ".join(notes), READ_MOST), style="#f0c27a")
+
+
+def read_text(table: Table) -> Text:
+    """For the Table tab: how the file was read, a line each; what needs a look in amber."""
+    text = Text("How the file was read", style="bold #8fb3d9")
+    for line, look in read_details(table):
+        text += Text("\n") + Text(line, style="#c9a25a" if look else "#8a94a0")
+    return text
 
 
 def meter(probability: float) -> Text:
