@@ -80,7 +80,7 @@ def _load(what: Given, table: str | None) -> Table:
             source = read_several(con, what.parts, table, _read_part, what.title)
         else:
             source = _read_part(con, what.parts[0], table)
-        plans, row_count = build(con, source.headers)
+        plans, row_count = build(con, source.headers, source.report)
         columns, last_total = profile(con, plans, row_count), total_row(con, plans, row_count)
         _lock(con)
     except BaseException:
