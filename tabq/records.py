@@ -24,17 +24,20 @@ from __future__ import annotations
 
 import datetime
 import json
+import math
 import os
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from .errors import ModelError
+from .safeio import open_regular, read_bounded, reason
 from .table import TableRef
 
 LOG_FORMAT = "tabq-log"
 LOG_VERSION = 2
 HEADER = {"kind": "log", "format": LOG_FORMAT, "version": LOG_VERSION}
+MAX_LOG_BYTES = 1 << 30     # a confirmation takes 1–3 kB: hundreds of thousands fit
 
 
 class LogWarning(UserWarning):
@@ -138,13 +141,33 @@ def _confirmation(data: dict) -> Confirmation:
     question, answer = data["question"], data["answer"]
     if not isinstance(question, str) or not isinstance(answer, list):
         raise TypeError("a confirmation needs a question string and an answer list")
-    senses = data.get("senses")
+    senses = _optional(data, "senses", list)
     strength = data.get("strength")
-    return Confirmation(str(data.get("id", "")), question, ref, answer, data.get("query"),
+    return Confirmation(str(data.get("id", "")), question, ref, answer,
+                        _optional(data, "query", str),
                         None if senses is None else [str(s) for s in senses],
                         str(data.get("time", "")), int(data.get("batch", 0)),
-                        None if strength is None else float(strength), data.get("rows"),
-                        data.get("rows_answer"), data.get("meant"))
+                        None if strength is None else float(_finite(strength)),
+                        _optional(data, "rows", list), _optional(data, "rows_answer", list),
+                        _optional(data, "meant", str))
+
+
+def _optional(data: dict, key: str, kind: type):
+    """A field that may be absent or null, else must be of `kind`: a string where a list
+    belongs would be read one character at a time, far from here."""
+    value = data.get(key)
+    if value is not None and not isinstance(value, kind):
+        raise TypeError(f"{key} must be {kind.__name__}, not {type(value).__name__}")
+    return value
+
+
+def _finite(value: object) -> int | float:
+    """A number as the log holds it (an int stays an int); NaN, infinities, text and
+    true/false are damage."""
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or (
+            isinstance(value, float) and not math.isfinite(value)):
+        raise ValueError(f"{str(value)[:40]} is not a finite number")
+    return value
 
 
 def _mode(mode: object) -> str:
@@ -156,19 +179,18 @@ def _mode(mode: object) -> str:
 def _numbers(mapping: object) -> dict:
     if not isinstance(mapping, dict):
         raise TypeError("expected an object of numbers")
-    return {str(k): v for k, v in mapping.items()}
+    return {str(k): _finite(v) for k, v in mapping.items()}
 
 
 # ── the log file ──────────────────────────────────────────────────────────────────────────────
 def read(path: Path) -> list[Record]:
     """Every record of a log file, oldest first; [] when there is none. Damaged lines are
-    skipped with a LogWarning; a log written by a newer tabq is refused."""
-    if not path.exists():
-        return []
+    skipped with a LogWarning; a log written by a newer tabq is refused, and so is a log that
+    is a link, not a regular file, or larger than MAX_LOG_BYTES (safeio.py)."""
     try:
-        lines = path.read_bytes().split(b"\n")
-    except OSError as err:
-        raise ModelError(f"{path}: the log cannot be read ({err.__class__.__name__})") from err
+        lines = read_bounded(path, MAX_LOG_BYTES, ModelError, "log").split(b"\n")
+    except FileNotFoundError:
+        return []
     records: list[Record] = []
     for number, raw in enumerate(lines, 1):
         if not raw.strip():
@@ -187,10 +209,21 @@ def read(path: Path) -> list[Record]:
         except (UnicodeDecodeError, json.JSONDecodeError, KeyError, TypeError,
                 ValueError) as err:
             why = ("a torn last line (a write cut short) was skipped" if torn else
-                   f"line {number} is damaged ({err.__class__.__name__}) and was skipped; "
+                   f"line {number} is damaged ({_damage(err)}) and was skipped; "
                    "it is left in the file")
             warnings.warn(f"{path}: {why}", LogWarning, stacklevel=2)
     return records
+
+
+def _damage(err: Exception) -> str:
+    """What is wrong with a log line, in a few words."""
+    if isinstance(err, KeyError):
+        return f"the field {str(err.args[0])[:40]!r} is missing"
+    if isinstance(err, json.JSONDecodeError):
+        return "not JSON"
+    if isinstance(err, UnicodeDecodeError):
+        return "not UTF-8"
+    return f"{err.__class__.__name__}: {str(err)[:80]}"
 
 
 def _check_version(header: dict, path: Path) -> None:
@@ -204,19 +237,25 @@ def _check_version(header: dict, path: Path) -> None:
 
 def append(path: Path, records: list[Record]) -> None:
     """Add records to the log: one write, then fsync, before returning. A torn tail left by an
-    earlier write that never completed is cut off first (it was never reported saved)."""
+    earlier write that never completed is cut off first (it was never reported saved). The log
+    is never opened through a link, so a link cannot send the write outside the folder."""
     if not records:
         return
-    path.parent.mkdir(parents=True, exist_ok=True)
     lines = [json.dumps(encode(r), ensure_ascii=False) for r in records]
-    with open(path, "a+b") as f:
-        if f.tell() == 0:
-            lines.insert(0, json.dumps(HEADER))
-        else:
-            _cut_torn_tail(f, path)
-        f.write("".join(line + "\n" for line in lines).encode("utf-8"))
-        f.flush()
-        os.fsync(f.fileno())
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        fd = open_regular(path, os.O_RDWR | os.O_APPEND | os.O_CREAT, ModelError, "log")
+        with os.fdopen(fd, "a+b") as f:
+            if f.seek(0, os.SEEK_END) == 0:
+                lines.insert(0, json.dumps(HEADER))
+            else:
+                _cut_torn_tail(f, path)
+            f.write("".join(line + "\n" for line in lines).encode("utf-8"))
+            f.flush()
+            os.fsync(f.fileno())
+    except OSError as err:      # a full disk or a read-only folder: nothing was reported saved
+        raise ModelError(f"cannot write the model folder {path.parent}: {reason(err)}; "
+                         "the new records were not saved") from None
 
 
 def _cut_torn_tail(f, path: Path) -> None:

@@ -8,7 +8,9 @@
     lock            held (flock) while a process reads, learns and writes
 
 Weights are written to a temporary file and renamed over the old one, so a kill at any moment
-leaves either the old or the new weights.
+leaves either the old or the new weights. No file of the folder is opened through a symbolic
+link, and each is read only when it is a regular file, to a size limit (safeio.py), so a link
+cannot send tabq's writes outside the folder and no file can hang it.
 """
 
 from __future__ import annotations
@@ -16,8 +18,8 @@ from __future__ import annotations
 import contextlib
 import fcntl
 import json
+import math
 import os
-import tempfile
 from collections.abc import Iterator
 from pathlib import Path
 
@@ -26,6 +28,9 @@ import platformdirs
 from . import records
 from .errors import ModelError
 from .model import FORMAT_VERSION, Model
+from .safeio import atomic_write, open_regular, read_bounded, reason
+
+__all__ = ["ModelFolder", "as_saved", "atomic_write", "default_folder"]
 
 WEIGHTS = "weights.json"
 LOG = "log.jsonl"
@@ -33,6 +38,8 @@ LOCK = "lock"
 FORMAT = "tabq-weights"
 KNOWN = {WEIGHTS, LOG, LOCK}
 MODEL_ENV = "TABQ_MODEL"    # a model folder that stands in for the per-user one everywhere
+MAX_WEIGHTS_BYTES = 64 << 20  # a taught model's offsets take a few hundred kB
+MAX_OFFSET = 1e6            # far past what teaching or imports reach; keeps every score finite
 
 
 def default_folder() -> Path:
@@ -54,13 +61,17 @@ class ModelFolder:
 
     # ── weights ────────────────────────────────────────────────────────────────────────────
     def load(self) -> Model:
-        """The model in the folder: the prior when nothing was learned yet."""
+        """The model in the folder: the prior when nothing was learned yet. A weights file
+        that is damaged, foreign or holds a weight that is not a finite number is refused and
+        left as it is: it is a cache of the log, rebuilt from it once removed."""
         path = self.path / WEIGHTS
-        if not path.exists():
+        try:
+            raw = read_bounded(path, MAX_WEIGHTS_BYTES, ModelError, "weights file")
+        except FileNotFoundError:
             return Model.prior()
         try:
-            data = json.loads(path.read_text(encoding="utf-8"))
-        except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
+            data = json.loads(raw.decode("utf-8"), parse_constant=_no_constant)
+        except (UnicodeDecodeError, json.JSONDecodeError, ValueError, RecursionError) as err:
             raise ModelError(f"{path}: not a readable tabq weights file "
                              f"({err.__class__.__name__}); it was left as it is") from err
         if not isinstance(data, dict) or data.get("format") != FORMAT:
@@ -68,24 +79,37 @@ class ModelFolder:
         if data.get("version") != FORMAT_VERSION:
             raise ModelError(f"{path}: weights format version {data.get('version')!r}; this "
                              f"tabq reads version {FORMAT_VERSION}")
-        learned = data.get("learned")
-        if not isinstance(learned, dict) or not all(
-                isinstance(k, str) and isinstance(v, (int, float)) and not isinstance(v, bool)
-                for k, v in learned.items()):
-            raise ModelError(f"{path}: learned weights must map feature names to numbers")
-        return _from_learned(learned)
+        return _from_learned(_checked(data.get("learned"), path))
 
     def save(self, model: Model, **meta) -> None:
-        """Write the weights atomically (temporary file, fsync, rename)."""
-        self.path.mkdir(parents=True, exist_ok=True)
+        """Write the weights atomically (temporary file, fsync, rename). When that fails (a
+        full disk, say) the old weights file is removed if it can be: every caller logged
+        something first, so it no longer matches the log, and the next use rebuilds it."""
         data = {"format": FORMAT, "version": FORMAT_VERSION, **meta, "learned": _learned(model)}
-        atomic_write(self.path / WEIGHTS, json.dumps(data, ensure_ascii=False, indent=0))
+        try:
+            text = json.dumps(data, ensure_ascii=False, indent=0, allow_nan=False)
+        except ValueError:      # a NaN from learning: keep the old, finite weights
+            raise ModelError(f"{self.path}: learning gave a weight that is not a finite number; "
+                             "the weights were not saved") from None
+        try:
+            self.path.mkdir(parents=True, exist_ok=True)
+            atomic_write(self.path / WEIGHTS, text)
+        except OSError as err:
+            dropped = False
+            with contextlib.suppress(OSError):
+                os.unlink(self.path / WEIGHTS)
+                dropped = True
+            after = (" the old weights were removed and are rebuilt from the log next time"
+                     if dropped else " the weights file was left as it was")
+            raise ModelError(f"cannot write the model folder {self.path}: {reason(err)};"
+                             f"{after}") from None
 
+    # lexists: a link in place of a file counts as there, so reading it refuses it (safeio)
     def has_weights(self) -> bool:
-        return (self.path / WEIGHTS).exists()
+        return os.path.lexists(self.path / WEIGHTS)
 
     def has_log(self) -> bool:
-        return (self.path / LOG).exists()
+        return os.path.lexists(self.path / LOG)
 
     # ── log ──────────────────────────────────────────────────────────────────────────────
     def read_log(self) -> list[records.Record]:
@@ -100,13 +124,20 @@ class ModelFolder:
     @contextlib.contextmanager
     def locked(self) -> Iterator[ModelFolder]:
         """Hold the folder for one read-learn-write: other teachers wait, nothing is lost."""
-        self.path.mkdir(parents=True, exist_ok=True)
+        try:
+            self.path.mkdir(parents=True, exist_ok=True)
+        except OSError as err:
+            raise ModelError(f"cannot make the model folder {self.path}: {reason(err)}") from None
         foreign = [p.name for p in self.path.iterdir()
                    if p.name not in KNOWN and not p.name.startswith(".tmp-")]
         if foreign and not (self.path / WEIGHTS).exists() and not (self.path / LOG).exists():
             raise ModelError(f"{self.path}: not a tabq model folder (it holds {foreign[0]!r}); "
                              "choose an empty or new folder")
-        with open(self.path / LOCK, "a+") as handle:
+        try:
+            fd = open_regular(self.path / LOCK, os.O_RDWR | os.O_CREAT, ModelError, "lock file")
+        except OSError as err:
+            raise ModelError(f"cannot write the model folder {self.path}: {reason(err)}") from None
+        with os.fdopen(fd, "r+b") as handle:
             fcntl.flock(handle, fcntl.LOCK_EX)
             try:
                 yield self
@@ -121,6 +152,26 @@ def _learned(model: Model) -> dict[str, float]:
     return {k: v for k, v in learned.items() if v != 0.0}
 
 
+def _checked(learned: object, path: Path) -> dict[str, float]:
+    """The learned offsets of a weights file, each a finite number of sensible size: NaN or
+    1e308 would make every score NaN or infinite, and `tabq ask --json` print invalid JSON."""
+    if not isinstance(learned, dict) or not all(
+            isinstance(k, str) and isinstance(v, (int, float)) and not isinstance(v, bool)
+            for k, v in learned.items()):
+        raise ModelError(f"{path}: learned weights must map feature names to numbers")
+    for name, value in learned.items():
+        if abs(value) > MAX_OFFSET or not math.isfinite(float(value)):
+            raise ModelError(f"{path}: the learned weight of {name[:60]!r} is {value!r}, not a "
+                             f"finite number within ±{MAX_OFFSET:g}; the file was left as it "
+                             "is (remove it and tabq rebuilds it from the log)")
+    return learned
+
+
+def _no_constant(name: str) -> float:
+    """json reads NaN and Infinity unless told not to; a weights file never holds them."""
+    raise ValueError(f"{name} is not a weight")
+
+
 def _from_learned(learned: dict[str, float]) -> Model:
     model = Model.prior()
     model.update(learned)
@@ -131,17 +182,3 @@ def as_saved(model: Model) -> Model:
     """The model as saving and loading it would give it back (offsets rounded): rebuilding
     from the log steps through these, so it reproduces the saved weights exactly."""
     return _from_learned(_learned(model))
-
-
-def atomic_write(path: Path, text: str) -> None:
-    fd, tmp = tempfile.mkstemp(prefix=".tmp-", dir=path.parent)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as f:
-            f.write(text)
-            f.flush()
-            os.fsync(f.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        with contextlib.suppress(OSError):
-            os.unlink(tmp)
-        raise

@@ -1,10 +1,13 @@
 """tabq.store.ModelFolder: round trips, damaged files, the log, the lock and kills mid-save."""
 
+import errno
 import json
 import multiprocessing
 import os
 import random
 import signal
+import stat
+import threading
 import time
 import warnings
 
@@ -14,7 +17,8 @@ from tabq.errors import ModelError
 from tabq.table import TableRef
 from tabq.model import Model
 from tabq.records import Confirmation, LogWarning
-from tabq.store import LOG, WEIGHTS, ModelFolder
+from tabq import records, safeio, store
+from tabq.store import LOCK, LOG, WEIGHTS, ModelFolder
 
 FORK = multiprocessing.get_context("fork")
 
@@ -67,6 +71,10 @@ BAD_WEIGHTS = {
                                "learned": {"a": "high"}}).encode(),
     "bool learned": json.dumps({"format": "tabq-weights", "version": 1,
                                 "learned": {"a": True}}).encode(),
+    # weights that are not finite numbers would make every score NaN and --json invalid
+    **{f"learned {text}": b'{"format": "tabq-weights", "version": 1, "learned": {"cover": '
+       + text.encode() + b'}}' for text in ("NaN", "Infinity", "-Infinity", "1e400", "1e308",
+                                           "1" + "0" * 400)},
 }
 
 
@@ -255,3 +263,177 @@ def test_a_kill_at_any_moment_leaves_loadable_weights_and_every_acknowledged_rec
         acknowledged += told
     assert (tmp_path / "weights.json").exists(), "no save ever completed: the test proves nothing"
     assert len(acknowledged) > 20
+
+
+# ── (f) links, modes, odd files, full and read-only disks ─────────────────────────────────────
+def _taught(folder: ModelFolder) -> None:
+    """What teaching does to a folder: log under the lock, then save."""
+    with folder.locked():
+        folder.append_log([_record(1)])
+        model = folder.load()
+        model.update({"feat:x": 0.5})
+        folder.save(model, batches=1)
+
+
+@pytest.mark.parametrize("name", [LOG, LOCK])
+def test_a_dangling_link_in_the_folder_is_refused_and_its_target_never_made(tmp_path, name):
+    folder_path, outside = tmp_path / "m", tmp_path / "outside" / "target"
+    folder_path.mkdir()
+    outside.parent.mkdir()
+    (folder_path / name).symlink_to(outside)
+    with pytest.raises(ModelError) as info:
+        _taught(ModelFolder(folder_path))
+    assert "is a symbolic link" in str(info.value) and "\n" not in str(info.value)
+    assert not outside.exists() and list(outside.parent.iterdir()) == []
+
+
+@pytest.mark.parametrize("name", [LOG, WEIGHTS])
+def test_a_link_to_a_real_file_is_neither_read_nor_written(tmp_path, name):
+    folder_path, outside = tmp_path / "m", tmp_path / "elsewhere.txt"
+    folder_path.mkdir()
+    outside.write_text("someone else's file\n")
+    (folder_path / name).symlink_to(outside)
+    folder = ModelFolder(folder_path)
+    with pytest.raises(ModelError, match="symbolic link"):
+        folder.load() if name == WEIGHTS else folder.read_log()
+    with pytest.raises(ModelError):
+        _taught(folder)
+    assert outside.read_text() == "someone else's file\n"
+
+
+@pytest.mark.parametrize("umask", [0o022, 0o027, 0o077])
+def test_weights_and_log_get_the_mode_of_any_new_file(tmp_path, umask):
+    """tempfile.mkstemp made weights.json 0600 while log.jsonl beside it was 0644."""
+    old = os.umask(umask)
+    try:
+        _taught(ModelFolder(tmp_path / "m"))
+    finally:
+        os.umask(old)
+    modes = {name: stat.S_IMODE((tmp_path / "m" / name).stat().st_mode)
+             for name in (WEIGHTS, LOG, LOCK)}
+    assert set(modes.values()) == {0o666 & ~umask}, modes
+
+
+def _finishes(call, seconds: float = 20.0):
+    """What `call` raised or returned, failing (not hanging) when it does not end in time."""
+    out: dict = {}
+
+    def run():
+        try:
+            out["value"] = call()
+        except BaseException as err:  # noqa: BLE001 - handed back to the test
+            out["error"] = err
+    worker = threading.Thread(target=run, daemon=True)
+    worker.start()
+    worker.join(seconds)
+    assert not worker.is_alive(), f"{call} did not finish: it blocked on the file"
+    return out
+
+
+@pytest.mark.parametrize("name", [WEIGHTS, LOG])
+def test_a_fifo_in_place_of_a_folder_file_is_refused_without_waiting(tmp_path, name):
+    os.mkfifo(tmp_path / name)
+    folder = ModelFolder(tmp_path)
+    out = _finishes(folder.load if name == WEIGHTS else folder.read_log)
+    assert isinstance(out.get("error"), ModelError), out
+    assert "not a regular file" in str(out["error"])
+
+
+def test_a_weights_file_past_its_limit_is_refused_unread(tmp_path, monkeypatch):
+    monkeypatch.setattr(store, "MAX_WEIGHTS_BYTES", 1000)
+    with open(tmp_path / WEIGHTS, "wb") as f:
+        f.truncate(1 << 40)               # a terabyte, sparse: reading it whole would never end
+    with pytest.raises(ModelError, match="too large"):
+        ModelFolder(tmp_path).load()
+
+
+def _no_space(*_args, **_kwargs):
+    raise OSError(errno.ENOSPC, os.strerror(errno.ENOSPC))
+
+
+def test_a_full_disk_while_saving_says_so_and_keeps_the_log(tmp_path, monkeypatch):
+    folder = ModelFolder(tmp_path)
+    _taught(folder)
+    monkeypatch.setattr(store, "atomic_write", _no_space)
+    with pytest.raises(ModelError) as info:
+        _taught(folder)
+    message = str(info.value)
+    assert f"cannot write the model folder {tmp_path}: no space left on device" in message
+    assert "\n" not in message
+    # both confirmations are logged; the stale weights are gone, so the next use rebuilds them
+    assert _numbers(folder.read_log()) == [1, 1]
+    assert not (tmp_path / WEIGHTS).exists()
+    assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".tmp-")] == []
+
+
+def test_a_full_disk_while_logging_says_so_and_saves_nothing(tmp_path, monkeypatch):
+    if not os.path.exists("/dev/full"):
+        pytest.skip("needs /dev/full")
+    folder = ModelFolder(tmp_path)
+    _taught(folder)
+    before = (tmp_path / LOG).read_bytes(), (tmp_path / WEIGHTS).read_bytes()
+    monkeypatch.setattr(records, "open_regular", lambda *a: os.open("/dev/full", os.O_RDWR))
+    with pytest.raises(ModelError, match="no space left on device"):
+        _taught(folder)
+    assert ((tmp_path / LOG).read_bytes(), (tmp_path / WEIGHTS).read_bytes()) == before
+
+
+@pytest.mark.parametrize("code", [errno.EROFS, errno.EACCES])
+def test_a_read_only_folder_says_so_in_one_line(tmp_path, monkeypatch, code):
+    """Root ignores file modes, so a read-only folder is simulated at os.open."""
+    folder = ModelFolder(tmp_path)
+    _taught(folder)
+    real_open = os.open
+
+    def refuse(path, flags, *args):
+        if flags & (os.O_WRONLY | os.O_RDWR | os.O_CREAT):
+            raise OSError(code, os.strerror(code), str(path))
+        return real_open(path, flags, *args)
+    monkeypatch.setattr(safeio.os, "open", refuse)
+    with pytest.raises(ModelError) as info:
+        _taught(folder)
+    assert f"cannot write the model folder {tmp_path}: {os.strerror(code).lower()}" in str(
+        info.value)
+    monkeypatch.undo()
+    assert ModelFolder(tmp_path).load().weight("feat:x") > 0     # what was there is still there
+
+
+@pytest.mark.skipif(os.geteuid() == 0, reason="root writes to a 0555 folder regardless")
+def test_a_folder_without_write_permission_says_so(tmp_path):
+    folder = ModelFolder(tmp_path / "m")
+    _taught(folder)
+    os.chmod(tmp_path / "m", 0o555)
+    try:
+        with pytest.raises(ModelError, match="permission denied"):
+            _taught(folder)
+    finally:
+        os.chmod(tmp_path / "m", 0o755)
+
+
+def test_a_log_line_missing_a_field_is_skipped_with_a_warning_naming_it(tmp_path):
+    folder = ModelFolder(tmp_path)
+    folder.append_log([_record(1)])
+    line = json.dumps({"kind": "confirmation", "id": "2", "answer": [2],
+                       "table": {"path": "/t.csv"}}) + "\n"
+    with open(tmp_path / LOG, "a") as f:
+        f.write(line)
+    folder.append_log([_record(3)])
+    with pytest.warns(LogWarning, match="line 3 .*the field 'question' is missing"):
+        assert _numbers(folder.read_log()) == [1, 3]
+    assert line in (tmp_path / LOG).read_text()
+
+
+@pytest.mark.parametrize("record", [
+    {"kind": "import", "source": "x.json", "sha256": "0", "mode": "merge",
+     "learned": {"cover": "high"}},
+    {"kind": "import", "source": "x.json", "sha256": "0", "mode": "merge",
+     "learned": {"cover": float("nan")}},
+    {"kind": "confirmation", "question": "q", "answer": [1], "table": "t.csv", "senses": "abc"},
+    {"kind": "confirmation", "question": "q", "answer": [1], "table": "t.csv", "rows": "1,2"},
+    {"kind": "confirmation", "question": "q", "answer": [1], "table": "t.csv",
+     "strength": "strong"},
+])
+def test_a_log_field_of_the_wrong_kind_is_damage_not_a_crash_later(tmp_path, record):
+    (tmp_path / LOG).write_text(json.dumps(record) + "\n")
+    with pytest.warns(LogWarning, match="line 1 is damaged"):
+        assert ModelFolder(tmp_path).read_log() == []
