@@ -29,6 +29,7 @@ import hashlib
 import io
 import json
 import math
+import os
 from collections import Counter, defaultdict
 from collections.abc import Iterable
 from dataclasses import dataclass
@@ -36,10 +37,11 @@ from pathlib import Path
 
 from . import records
 from .analyse import question_grams
-from .errors import InputError
+from .errors import InputError, TabqError
 from .featurenames import KINDS, Pair, open_sense, parse, senses
 from .model import Model
-from .store import ModelFolder, atomic_write
+from .safeio import atomic_write, open_regular, printable, read_bounded, reason
+from .store import ModelFolder
 
 FORMAT = "tabq-lexicon"
 VERSION = 1
@@ -190,7 +192,6 @@ def _senses_again(old: list[records.Confirmation], model: Model) -> dict[int, li
     from .load import load_table
     from .pipeline import OpenTable
     from .learn import TRAIN_EXECUTE
-    from .errors import TabqError
     out: dict[int, list[str]] = {}
     by_table: dict[tuple, list[records.Confirmation]] = defaultdict(list)
     for record in old:
@@ -285,8 +286,11 @@ def export(folder: ModelFolder, out: str | Path) -> Lexicon:
     kind = file_kind(out)
     _check_overwrite(out)
     lexicon = from_folder(folder)
-    out.parent.mkdir(parents=True, exist_ok=True)
-    atomic_write(out, render(lexicon, kind))
+    try:
+        out.parent.mkdir(parents=True, exist_ok=True)
+        atomic_write(out, render(lexicon, kind))
+    except OSError as err:
+        raise TabqError(f"cannot write {out}: {reason(err)}; it was left as it was") from None
     return lexicon
 
 
@@ -294,11 +298,11 @@ def _check_overwrite(out: Path) -> None:
     """Replace an older lexicon, never some other file (a table, say) that has the same name."""
     if out.is_dir():
         raise InputError(f"{out}: is a folder; give a file name ending in .json or .csv")
-    if not out.exists() or out.stat().st_size == 0:
+    if not os.path.lexists(out):
         return
-    with open(out, "rb") as f:
+    with os.fdopen(open_regular(out, os.O_RDONLY, InputError, "file", True), "rb") as f:
         head = f.read(200)
-    if FORMAT.encode() not in head:
+    if head and FORMAT.encode() not in head:
         raise InputError(f"{out}: exists and is not a tabq lexicon; it was left as it is")
 
 
@@ -309,19 +313,9 @@ def read(path: str | Path) -> tuple[Lexicon, str]:
     path = Path(path)
     kind = file_kind(path)
     try:
-        size = path.stat().st_size
-        if size > MAX_BYTES:
-            raise LexiconError(f"{path}: {size} bytes is too large for a lexicon (at most "
-                               f"{MAX_BYTES}); it was not read")
-        raw = path.read_bytes()
+        raw = read_bounded(path, MAX_BYTES, LexiconError, "lexicon file", follow=True)
     except FileNotFoundError:
         raise LexiconError(f"{path}: no such file") from None
-    except IsADirectoryError:
-        raise LexiconError(f"{path}: is a folder, not a lexicon file") from None
-    except OSError as err:
-        raise LexiconError(f"{path}: cannot be read ({err.__class__.__name__})") from None
-    if len(raw) > MAX_BYTES:
-        raise LexiconError(f"{path}: too large for a lexicon (at most {MAX_BYTES} bytes)")
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError:
@@ -587,8 +581,8 @@ def as_table(entries: list[Entry]) -> str:
     if not entries:
         return "(no entries)"
     rows = [("word", "kind", "meaning", "learned", "weight", "support")]
-    rows += [(e.word or "—", e.kind, e.meaning, f"{e.learned:+.3f}", f"{e.weight:+.3f}",
-              str(e.support)) for e in entries]
+    rows += [(printable(e.word) or "—", printable(e.kind), printable(e.meaning),
+              f"{e.learned:+.3f}", f"{e.weight:+.3f}", str(e.support)) for e in entries]
     widths = [min(max(len(r[i]) for r in rows), 40) for i in range(6)]
     lines = []
     for row in rows:
@@ -625,9 +619,11 @@ def _place(entry: Entry) -> tuple:
 
 
 def describe(entry: Entry) -> str:
+    """An entry for a person to read: imported text is escaped where it could act on the
+    terminal."""
     if entry.kind == "structure":
-        return f"structure {entry.meaning}"
-    return f"{entry.word!r} → {entry.kind} {entry.meaning}"
+        return f"structure {printable(entry.meaning)}"
+    return f"{entry.word!r} → {printable(entry.kind)} {printable(entry.meaning)}"
 
 
 def diff_text(d: Difference, a: Lexicon, b: Lexicon) -> str:

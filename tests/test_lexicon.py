@@ -4,7 +4,9 @@ import copy
 import csv
 import hashlib
 import json
+import os
 import shutil
+import stat
 import subprocess
 import sys
 from pathlib import Path
@@ -16,6 +18,7 @@ import tabq
 from tabq import featurenames, lexicon
 from tabq.analyse import analyse, question_grams
 from tabq.featurenames import Pair
+from tabq.errors import InputError
 from tabq.lexicon import LexiconError
 from tabq.load import load_table
 from tabq.model import Model
@@ -459,6 +462,72 @@ def test_cli_bad_lexicon_is_one_line_and_exit_2(shop, tmp_path):
     assert not (tmp_path / "m").exists()      # nothing was created for a refused file
     none = tabq_cli("lexicon")
     assert none.returncode == 2 and "export" in none.stderr
+
+
+# ── odd files and hostile words ───────────────────────────────────────────────────────────────
+def _ends(call, seconds: float = 20.0):
+    """What `call` raised, failing (not hanging) when it blocks."""
+    import threading
+    out: dict = {}
+
+    def run():
+        try:
+            call()
+        except BaseException as err:  # noqa: BLE001 - handed back to the test
+            out["error"] = err
+    worker = threading.Thread(target=run, daemon=True)
+    worker.start()
+    worker.join(seconds)
+    assert not worker.is_alive(), "blocked on the file"
+    return out.get("error")
+
+
+@pytest.mark.parametrize("kind", ["fifo", "zero", "folder"])
+def test_a_lexicon_that_is_no_regular_file_is_refused_without_reading(tmp_path, kind):
+    """A FIFO or /dev/zero reports size 0: the 5 MB limit read from the size let them through
+    to a read that never ends."""
+    path = tmp_path / "team.json"
+    if kind == "fifo":
+        os.mkfifo(path)
+    elif kind == "zero":
+        path.symlink_to("/dev/zero")     # a link the person made is followed, then checked
+    else:
+        path.mkdir()
+    error = _ends(lambda: lexicon.read(path))
+    assert isinstance(error, LexiconError) and "not a regular file" in str(error)
+
+
+def test_export_does_not_open_a_fifo_in_place_of_its_file(shop, tmp_path):
+    folder, _, _ = shop
+    os.mkfifo(tmp_path / "out.json")
+    error = _ends(lambda: lexicon.export(folder, tmp_path / "out.json"))
+    assert isinstance(error, InputError) and "not a regular file" in str(error)
+    assert stat.S_ISFIFO((tmp_path / "out.json").lstat().st_mode)
+
+
+HOSTILE = "\x1b[2J\x1b]0;pwned\x07ret\rurns\x00\u202e"
+
+
+def test_lexicon_show_and_diff_escape_what_a_terminal_would_act_on(tmp_path):
+    entry = lexicon.Entry(HOSTILE, "column", "stat\x1b[31mus", 1.0, 1.0, 1)
+    shown = lexicon.as_table([entry]) + lexicon.describe(entry)
+    assert not set(shown) & {"\x1b", "\r", "\x00", "\x07", "\u202e"}
+    assert "\\x1b[2J" in shown and "\\r" in shown and "\\x00" in shown
+
+
+def test_cli_lexicon_show_prints_no_control_characters_from_an_imported_file(tmp_path):
+    path = tmp_path / "hostile.json"
+    path.write_text(json.dumps({
+        "format": "tabq-lexicon", "version": 1, "confirmations": 1, "support_unknown": 0,
+        "entries": [{"word": HOSTILE, "kind": "column", "meaning": "status\x1b[8m",
+                     "learned": 1.0, "weight": 1.0, "support": 1}],
+        "structure": []}))
+    out = tabq_cli("lexicon", "import", path, "--model", tmp_path / "m")
+    assert out.returncode == 0, out.stderr
+    shown = tabq_cli("lexicon", "show", "--model", tmp_path / "m")
+    assert shown.returncode == 0, shown.stderr
+    assert not set(shown.stdout) & {"\x1b", "\r", "\x00", "\x07", "\u202e"}
+    assert "\\x1b[2J" in shown.stdout
 
 
 # ── writers and reader agree on any lexicon ───────────────────────────────────────────────────

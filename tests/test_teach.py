@@ -182,6 +182,35 @@ def test_read_examples_without_a_table_needs_one_per_line(tmp_path):
         read_examples(path)
 
 
+@pytest.mark.parametrize("kind", ["fifo", "zero"])
+def test_an_examples_file_that_never_ends_is_refused_at_once(tmp_path, kind):
+    """`tabq teach t.csv /dev/zero` or a FIFO: refused before a read that would never end."""
+    import os
+    import threading
+    path = tmp_path / "examples.jsonl"
+    os.mkfifo(path) if kind == "fifo" else path.symlink_to("/dev/zero")
+    caught: list = []
+
+    def read():
+        try:
+            read_examples(path, table="t.csv")
+        except ExamplesError as err:
+            caught.append(err)
+    worker = threading.Thread(target=read, daemon=True)
+    worker.start()
+    worker.join(20)
+    assert not worker.is_alive() and caught and "not a regular file" in str(caught[0])
+
+
+def test_an_examples_file_past_its_limit_is_refused(tmp_path, monkeypatch):
+    from tabq.teaching import examples
+    monkeypatch.setattr(examples, "MAX_BYTES", 100)
+    path = tmp_path / "examples.jsonl"
+    path.write_text('{"question": "how many", "answer": [1]}\n' * 10)
+    with pytest.raises(ExamplesError, match="too large"):
+        read_examples(path, table="t.csv")
+
+
 def test_read_examples_missing_or_empty_file(tmp_path):
     with pytest.raises(ExamplesError, match="no such file"):
         read_examples(tmp_path / "nope.jsonl", table="t.csv")

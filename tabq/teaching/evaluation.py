@@ -9,8 +9,10 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..answers import matches
+from ..errors import TabqError
 from ..pipeline import EXECUTE
 from ..model import Model
+from ..safeio import reason
 from .examples import Job
 from .pool import answer_batch, run_parallel
 
@@ -46,8 +48,12 @@ def evaluate(model: Model, jobs: list[Job], workers: int | None = None,
 
 
 def write_predictions(path: str | Path, jobs: Iterable[Job], report: EvalReport) -> None:
-    with open(path, "w", encoding="utf-8") as f:
-        for job in jobs:
-            got = report.predictions[job.id]
-            f.write(json.dumps({"id": job.id, "answer": got["answer"], "sql": got["sql"]},
-                               ensure_ascii=False) + "\n")
+    """One {"id", "answer", "sql"} a line; a full disk is said as one line naming the file."""
+    try:
+        with open(path, "w", encoding="utf-8") as f:
+            for job in jobs:
+                got = report.predictions[job.id]
+                f.write(json.dumps({"id": job.id, "answer": got["answer"], "sql": got["sql"]},
+                                   ensure_ascii=False) + "\n")
+    except OSError as err:
+        raise TabqError(f"cannot write the predictions to {path}: {reason(err)}") from None

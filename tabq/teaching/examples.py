@@ -8,6 +8,9 @@ from pathlib import Path
 
 from ..errors import InputError
 from ..records import Confirmation
+from ..safeio import read_bounded
+
+MAX_BYTES = 100 << 20    # a large evaluation set is a few MB; a FIFO or /dev/zero never ends
 
 
 class ExamplesError(InputError):
@@ -44,11 +47,12 @@ def read_examples(path: str | Path, table: str | Path | None = None,
     With `table`, every example is about that table (and `table_name` in it)."""
     path = Path(path)
     try:
-        lines = path.read_text(encoding="utf-8").splitlines()
+        raw = read_bounded(path, MAX_BYTES, ExamplesError, "examples file", follow=True)
+        lines = raw.decode("utf-8").splitlines()
     except FileNotFoundError:
         raise ExamplesError(f"{path}: no such file") from None
-    except (OSError, UnicodeDecodeError) as err:
-        raise ExamplesError(f"{path}: cannot be read as text ({err.__class__.__name__})") from None
+    except UnicodeDecodeError:
+        raise ExamplesError(f"{path}: cannot be read as text (not UTF-8)") from None
     jobs = []
     for number, line in enumerate(lines, 1):
         if not line.strip():
