@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import math
 import os
 import sys
 import warnings
@@ -11,6 +12,7 @@ import warnings
 from . import api
 from .errors import TabqError
 from .output import as_json, format_result
+from .safeio import printable, reason
 
 EXAMPLES = {
     "ask": 'tabq ask sample_tables/repair_jobs.csv "how many jobs were cancelled"',
@@ -187,8 +189,8 @@ def _lexicon_show(args: argparse.Namespace) -> int:
               + (f", {lexicon.support_unknown} of them with unknown support"
                  if lexicon.support_unknown else ""))
         for record in imports(folder):
-            print(f"imported ({record.mode}) {record.source} on {record.time}, "
-                  f"sha256 {record.sha256[:12]}")
+            print(printable(f"imported ({record.mode}) {record.source} on {record.time}, "
+                            f"sha256 {record.sha256[:12]}"))
     return 0
 
 
@@ -225,21 +227,73 @@ def main(argv: list[str] | None = None) -> int:
         parser.print_help()
         return 2
     warnings.showwarning = _show_warning
+    stdout = sys.stdout
+    if args.command != "ui":    # the app draws on the terminal itself
+        sys.stdout = _Output(stdout)
     try:
-        return args.run(args)
+        code = args.run(args)
+        sys.stdout.flush()      # a full device fails here, not in an exit hook, so it is said
+        return code
+    except OutputError as err:
+        _drop_stdout()          # or the exit fails again, flushing what is left
+        return _fail(str(err), err.exit_code)
     except TabqError as err:
-        print(f"tabq: {_one_line(str(err))}", file=sys.stderr)
-        return err.exit_code
+        return _fail(str(err), err.exit_code)
     except KeyboardInterrupt:
         print("tabq: stopped", file=sys.stderr)
         return 130
     except BrokenPipeError:     # `tabq ask … | head`: the reader left, which is not an error
-        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        _drop_stdout()
         return 0
+    except OSError as err:      # a full disk or a read-only place tabq was writing to
+        where = f"{err.filename}: " if err.filename is not None else ""
+        return _fail(f"{where}{reason(err)}", 1)
     except Exception as err:  # a bug of ours: still one line, never a traceback
-        print(f"tabq: internal error ({err.__class__.__name__}): {_one_line(str(err))}",
-              file=sys.stderr)
-        return 1
+        return _fail(f"internal error ({err.__class__.__name__}): {err}", 1)
+    finally:
+        sys.stdout = stdout
+
+
+class OutputError(TabqError):
+    """Standard output cannot be written (a full device): not a bug, and not bad input."""
+
+
+class _Output:
+    """Standard output, whose write errors say they are the output's: an OSError from deep
+    in a command is otherwise hard to tell from one of the model folder's."""
+
+    def __init__(self, stream):
+        self._stream = stream
+
+    def write(self, text: str) -> int:
+        return self._guarded(self._stream.write, text)
+
+    def flush(self) -> None:
+        self._guarded(self._stream.flush)
+
+    def _guarded(self, call, *args):
+        try:
+            return call(*args)
+        except BrokenPipeError:
+            raise
+        except OSError as err:
+            raise OutputError(f"cannot write the output: {reason(err)}") from None
+
+    def __getattr__(self, name: str):
+        return getattr(self._stream, name)
+
+
+def _fail(message: str, code: int) -> int:
+    print(f"tabq: {_one_line(message)}", file=sys.stderr)
+    return code
+
+
+def _drop_stdout() -> None:
+    """Point standard output at the null device: Python flushes it again on exit."""
+    try:
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+    except (OSError, ValueError):
+        pass
 
 
 def _show_warning(message, category, *_) -> None:
@@ -248,7 +302,24 @@ def _show_warning(message, category, *_) -> None:
 
 
 def _one_line(text: str) -> str:
-    return " ".join(text.split())[:300]
+    """One line, its control characters escaped: messages quote paths and file contents."""
+    return printable(" ".join(text.split()))[:300]
+
+
+def _dump(data: object) -> str:
+    """Strict JSON: a number JSON cannot hold (NaN, an infinity) is written as null, never as
+    the bare NaN or Infinity that JSON readers refuse."""
+    return json.dumps(_finite(data), ensure_ascii=False, indent=2, allow_nan=False)
+
+
+def _finite(data: object) -> object:
+    if isinstance(data, float) and not math.isfinite(data):
+        return None
+    if isinstance(data, dict):
+        return {k: _finite(v) for k, v in data.items()}
+    if isinstance(data, (list, tuple)):
+        return [_finite(v) for v in data]
+    return data
 
 
 def _ask(args: argparse.Namespace) -> int:
@@ -257,7 +328,7 @@ def _ask(args: argparse.Namespace) -> int:
     result = table.ask(args.question)
     top = max(1, args.top)
     if args.json:
-        print(json.dumps(as_json(result, top), ensure_ascii=False, indent=2))
+        print(_dump(as_json(result, top)))
     else:
         print(format_result(result, top))
     return 0
@@ -311,7 +382,7 @@ def _eval(args: argparse.Namespace) -> int:
                "by_kind": {k: {"right": r, "of": n} for k, (r, n) in result.by_kind.items()},
                **({"training": trained} if trained else {})}
     if args.json:
-        print(json.dumps(summary, indent=2))
+        print(_dump(summary))
         return 0
     if trained:
         print(f"trained on {trained['examples']} examples in {trained['seconds']} s "

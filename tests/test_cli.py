@@ -2,6 +2,7 @@
 
 import hashlib
 import json
+import os
 import subprocess
 import sys
 
@@ -84,3 +85,62 @@ def test_a_reader_that_leaves_early_is_not_an_error(demo_csv):
     err = proc.stderr.read().decode()
     assert proc.wait(timeout=120) == 0
     assert "error" not in err and "Traceback" not in err
+
+
+# ── a damaged model folder, a full device, strict JSON ────────────────────────────────────────
+def _no_constant(name):
+    raise ValueError(f"{name} is not JSON")
+
+
+@pytest.mark.parametrize("value", ["NaN", "Infinity", "1e308"])
+def test_a_weights_file_with_a_non_finite_weight_is_one_line_naming_it(demo_csv, tmp_path,
+                                                                       value):
+    (tmp_path / "weights.json").write_text(
+        '{"format": "tabq-weights", "version": 1, "learned": {"cover": %s}}' % value)
+    out = tabq("ask", demo_csv, "how many jobs", "--model", tmp_path, "--json")
+    assert out.returncode == 1 and out.stdout == ""
+    assert out.stderr.count("\n") == 1 and str(tmp_path / "weights.json") in out.stderr
+    assert "internal error" not in out.stderr
+
+
+def test_json_output_is_strict_json_whatever_the_numbers():
+    from tabq.cli import _dump
+    text = _dump({"answers": [{"answer": [1.5, float("inf"), [float("nan")]],
+                               "score": float("-inf"), "probability": 0.25}]})
+    data = json.loads(text, parse_constant=_no_constant)
+    assert data["answers"][0] == {"answer": [1.5, None, [None]], "score": None,
+                                  "probability": 0.25}
+
+
+def test_a_full_device_on_standard_output_is_one_line(demo_csv):
+    if not os.path.exists("/dev/full"):
+        pytest.skip("needs /dev/full")
+    with open("/dev/full", "w") as full:
+        out = subprocess.run([sys.executable, "-m", "tabq", "ask", str(demo_csv),
+                              "how many jobs were cancelled", "--json"], stdout=full,
+                             stderr=subprocess.PIPE, text=True, timeout=120)
+    assert out.returncode == 1
+    assert out.stderr == "tabq: cannot write the output: no space left on device\n"
+
+
+def test_a_dangling_link_in_the_model_folder_is_refused_and_nothing_made(demo_csv, tmp_path):
+    model, outside = tmp_path / "m", tmp_path / "outside" / "log"
+    model.mkdir()
+    outside.parent.mkdir()
+    (model / "log.jsonl").symlink_to(outside)
+    examples = tmp_path / "confirmed.jsonl"
+    examples.write_text('{"question": "how many jobs were cancelled", "answer": [10]}\n')
+    out = tabq("teach", demo_csv, examples, "--model", model)
+    assert out.returncode == 1 and out.stderr.count("\n") == 1, out.stderr
+    assert "symbolic link" in out.stderr and "internal error" not in out.stderr
+    assert list(outside.parent.iterdir()) == []
+
+
+def test_a_log_line_missing_a_field_is_a_one_line_warning(tmp_path):
+    (tmp_path / "log.jsonl").write_text(
+        '{"kind": "log", "format": "tabq-log", "version": 2}\n'
+        '{"kind": "confirmation", "id": "1", "answer": [1], "table": {"path": "t.csv"}}\n')
+    out = tabq("lexicon", "show", "--model", tmp_path)
+    assert out.returncode == 0, out.stderr
+    assert out.stderr.startswith("tabq: warning: ") and out.stderr.count("\n") >= 1
+    assert "the field 'question' is missing" in out.stderr and "internal" not in out.stderr
