@@ -27,9 +27,10 @@ import statistics
 import struct
 import zipfile
 import zlib
-from collections.abc import Iterable, Iterator
+from collections.abc import Callable, Iterable, Iterator
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TypeVar
 from xml.etree import ElementTree
 
 from ..errors import TableFileError
@@ -65,26 +66,19 @@ _CHUNK = 4 << 20      # bytes of XML scanned at a time
 
 def read_xlsx(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     """The first worksheet, or the one `table` names; its header found past any preamble."""
-    from python_calamine import CalamineWorkbook   # imported here: only workbooks need it
-
     name = shown(path)
     parts = _check_workbook(path, name)
-    try:
-        book = CalamineWorkbook.from_path(str(path))
-    except Exception as exc:   # calamine raises its own kinds for a damaged file
-        raise TableFileError(f"{name}: not a readable Excel workbook ({one_line(exc)})") from None
+    book = _calamine(lambda: _open(path), f"{name}: not a readable Excel workbook")
     try:
         names = list(book.sheet_names)
         if not names:
             raise TableFileError(f"{name}: the workbook has no worksheets")
         chosen = choose(names, table, name, "sheet") if table else names[0]
         _check_sheet(path, name, chosen, parts.get(chosen))
-        try:
-            sheet = book.get_sheet_by_name(chosen)
-        except Exception as exc:
-            raise TableFileError(f"{name}: cannot read sheet {chosen!r} ({one_line(exc)})") \
-                from None
-        source = _stage(con, sheet, name, chosen)
+        sheet = _calamine(lambda: book.get_sheet_by_name(chosen),
+                          f"{name}: cannot read sheet {chosen!r}")
+        source = _calamine(lambda: _stage(con, sheet, name, chosen),
+                           f"{name}: cannot read sheet {chosen!r}")
     finally:
         book.close()
     default = re.fullmatch(r"sheet\s*\d*", chosen.strip(), re.IGNORECASE)
@@ -94,11 +88,37 @@ def read_xlsx(con: Con, path: Path, head: bytes, table: str | None) -> Source:
 
 def sheet_names(path: Path) -> list[str]:
     """The worksheets of a workbook, in its own order."""
-    from python_calamine import CalamineWorkbook
-
-    _check_workbook(path, shown(path))
-    with CalamineWorkbook.from_path(str(path)) as book:
+    name = shown(path)
+    _check_workbook(path, name)
+    book = _calamine(lambda: _open(path), f"{name}: not a readable Excel workbook")
+    try:
         return list(book.sheet_names)
+    finally:
+        book.close()
+
+
+def _open(path: Path):
+    from python_calamine import CalamineWorkbook  # imported here: only workbooks need it
+
+    return CalamineWorkbook.from_path(str(path))
+
+
+T = TypeVar("T")
+
+
+def _calamine(call: Callable[[], T], what: str) -> T:
+    """`call`, with calamine's failures as one line. A Rust panic reaches Python as pyo3's
+    PanicException, a BaseException: it is caught by name so Ctrl-C still stops tabq."""
+    from python_calamine import CalamineError
+
+    try:
+        return call()
+    except (CalamineError, OSError, ValueError) as exc:
+        raise TableFileError(f"{what} ({one_line(exc)})") from None
+    except BaseException as exc:
+        if type(exc).__name__ != "PanicException":
+            raise
+        raise TableFileError(f"{what} (calamine failed: {one_line(exc)})") from None
 
 
 # ---------------------------------------------------------------- rows into the staging table
@@ -216,10 +236,7 @@ class _Merge:
 
 def _merges(sheet, header: int) -> list[_Merge]:
     """The merged ranges below the header, in sheet coordinates relative to the first column."""
-    try:
-        found = sheet.merged_cell_ranges or []
-    except Exception:   # an older calamine, or a format without merges
-        return []
+    found = sheet.merged_cell_ranges or []   # None for a format without merges
     left = (sheet.start or (0, 0))[1]
     merges = [_Merge(r0, r1, c0 - left, c1 - left) for (r0, c0), (r1, c1) in found
               if r0 > header and (r1 > r0 or c1 > c0)]
