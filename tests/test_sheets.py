@@ -182,6 +182,10 @@ def test_leading_blank_rows_and_columns(tmp_path):
     table = load_table(path)
     assert [c.header for c in base(table)] == ["Wood", "Boards"]
     assert table.report.header_line == 3 and table.row_count == 2
+    sheet.insert_rows(1, 60)   # more blank rows than the header search looks at
+    book.save(path)
+    table = load_table(path)
+    assert table.report.header_line == 63 and table.row_count == 2
 
 
 # ---------------------------------------------------------------- hostile workbooks

@@ -127,9 +127,7 @@ def _calamine(call: Callable[[], T], what: str) -> T:
 def _stage(con: Con, sheet, name: str, chosen: str) -> Source:
     """The sheet's rows into `_src`: the header row found, the rows above it recorded."""
     rows = _numbered(sheet)
-    peeked = [next(rows, None) for _ in range(PEEK_ROWS)]
-    peeked = [r for r in peeked if r is not None]
-    filled = [(i, r) for i, r in peeked if _count(r)]
+    peeked, filled = _peek(rows)
     if not filled:
         raise TableFileError(f"{name}: sheet {chosen!r} is empty")
     at = header_row(filled)
@@ -147,6 +145,19 @@ def _stage(con: Con, sheet, name: str, chosen: str) -> Source:
     source.report.header_line = line + 1
     source.report.skip("preamble", [i + 1 for i, _ in filled[:at]])
     return source
+
+
+def _peek(rows: Iterator[tuple[int, list]]) -> tuple[list, list]:
+    """The first rows, up to PEEK_ROWS non-blank ones, and those non-blank ones. Blank rows
+    before them are kept too (their number is bounded by CELL_BUDGET, checked earlier)."""
+    peeked, filled = [], []
+    for number, row in rows:
+        peeked.append((number, row))
+        if _count(row):
+            filled.append((number, row))
+            if len(filled) == PEEK_ROWS:
+                break
+    return peeked, filled
 
 
 def _numbered(sheet) -> Iterator[tuple[int, list]]:
