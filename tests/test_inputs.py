@@ -230,6 +230,8 @@ def test_a_folder_is_one_table_in_file_name_order(tmp_path, private_tmp):
     got = table.con.execute(f"SELECT ticket, source_file FROM {TABLE} ORDER BY {ROW}").fetchall()
     assert got == [(row[0], name) for name in order for row in parts[name]]
     assert table.column("source_file").header == "source file"
+    assert table.report.notes()[0].startswith("3 files read as one table (ferry_1.csv … "
+                                              "ferry_10.csv)")
     assert ask(tmp_path / "exports", "what is the total fare") == [total(every)]
     assert listing(tmp_path / "exports") == before and listing(private_tmp) == []
 

@@ -50,8 +50,19 @@ def read_several(con: Con, parts: Sequence[Part], table: str | None, read_one: R
     for kept in ("encoding", "delimiter", "decimal_mark", "header_line"):
         setattr(report, kept, getattr(first.report, kept))    # as the first file was read
     report.sources = tuple(p.name for p in parts)
+    report.guesses.insert(0, _joined(report.sources))
     report.format = "+".join(dict.fromkeys(p.kind for p in parts))
     return Source(first.headers + [SOURCE_HEADER], title, first.table, report)
+
+
+def _joined(names: tuple[str, ...]) -> str:
+    """The note that says several files were read as one: a reader should know it."""
+    if len(names) == 1:
+        return f"1 file read from the folder or pattern ({names[0]}), with a column " \
+            f"{SOURCE_HEADER!r}"
+    which = f"{names[0]}, {names[1]}" if len(names) == 2 else f"{names[0]} … {names[-1]}"
+    return f"{len(names)} files read as one table ({which}), in file-name order; the column " \
+        f"{SOURCE_HEADER!r} names each row's file"
 
 
 def _columns(con: Con, table: str) -> list[tuple[str, str]]:
