@@ -36,7 +36,10 @@ def _top_level_names(distribution: str) -> set[str]:
     """The names an installed distribution puts at the top of site-packages (its packages and
     modules), read from its file list: Python 3.10's packages_distributions() reads only
     top_level.txt, which wheels such as duckdb's do not ship."""
-    files = metadata.distribution(distribution).files or []
+    try:
+        files = metadata.distribution(distribution).files or []
+    except metadata.PackageNotFoundError:
+        pytest.fail(f"{distribution} is declared but not installed: pip install '.[test]'")
     return {f.parts[0].split(".")[0] for f in files
             if not f.parts[0].endswith((".dist-info", ".data")) and f.parts[0] != ".."}
 
