@@ -20,7 +20,7 @@ from typing import BinaryIO
 from .errors import TableFileError
 
 HEAD = 1 << 16        # bytes looked at to tell text from binary
-# Largest file tabq reads: four times the memory limit's cap (load.MEMORY_LIMIT_CAP, 4 GiB), so
+# Largest file tabq reads: four times the memory limit's cap (limits.MEMORY_LIMIT_CAP, 4 GiB), so
 # any table that could fit in memory passes, and a 50 GB (perhaps sparse) file is refused before
 # it is hashed or copied.
 FILE_BUDGET = 16 << 30

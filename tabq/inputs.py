@@ -29,7 +29,7 @@ from .files import (COMPRESSIONS, FILE_BUDGET, compression_of, fingerprint, has_
                     is_table_name, kind_of, one_line, read_head, shown, size_text)
 
 # Most bytes tabq writes to its temporary folder for one input (standard input, or what a
-# compressed file unpacks to): the memory limit's cap (load.MEMORY_LIMIT_CAP). A table this
+# compressed file unpacks to): the memory limit's cap (limits.MEMORY_LIMIT_CAP). A table this
 # large as text would not fit in memory anyway, and a gzip bomb stops here.
 UNPACK_BUDGET = 4 << 30
 MAX_FILES = 1000      # files of a folder or pattern read as one table

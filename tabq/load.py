@@ -9,13 +9,12 @@ The stage runs in four steps, each its own module:
 1. `files` checks each file (a regular file, not empty, within the size budget, text or the
    right magic bytes), then hashes it;
 2. a reader of `readers`, one per format, copies the rows in file order into a staging table;
-3. `retype` types, cleans and writes the columns as TABLE;
+3. `retype` types, cleans and writes the columns as TABLE, leaving out total rows (`totals`);
 4. `profile` measures the columns; then the connection is locked (no file access, no settings).
 """
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 import duckdb
@@ -23,16 +22,12 @@ import duckdb
 from .errors import TableFileError, TabqError
 from .files import one_line
 from .inputs import Given, Part, given, shown_given
-from .profile import profile, total_row
+from .profile import profile
 from .readers import LISTERS, READERS, Source
 from .readers.several import read_several
 from .retype import build
+from .limits import memory_limit, threads
 from .table import Con, Table
-
-MEMORY_LIMIT_CAP = 4 << 30   # bytes; hard cap: temp_directory is '' so DuckDB cannot spill
-
-
-THREADS_CAP = 4              # more threads than this buy little on one table and starve the UI
 
 
 def load_table(path: str | Path, table: str | None = None) -> Table:
@@ -81,7 +76,7 @@ def _load(what: Given, table: str | None) -> Table:
         else:
             source = _read_part(con, what.parts[0], table)
         plans, row_count = build(con, source.headers, source.report)
-        columns, last_total = profile(con, plans, row_count), total_row(con, plans, row_count)
+        columns = profile(con, plans, row_count)
         _lock(con)
     except BaseException:
         con.close()
@@ -90,7 +85,7 @@ def _load(what: Given, table: str | None) -> Table:
     if source.table is not None:
         digest.update(b"\0" + source.table.encode())
     return Table(con=con, columns=columns, row_count=row_count, path=what.origin,
-                 title=source.title, fingerprint=digest.hexdigest(), total_row=last_total,
+                 title=source.title, fingerprint=digest.hexdigest(),
                  name=source.table, report=source.report)
 
 
@@ -124,24 +119,6 @@ def _connect() -> Con:
     con.execute("SET autoinstall_known_extensions = false")
     con.execute("SET autoload_known_extensions = false")
     return con
-
-
-def threads() -> int:
-    """The cores this process may use, at most THREADS_CAP."""
-    try:
-        cores = len(os.sched_getaffinity(0))
-    except (AttributeError, OSError):
-        cores = os.cpu_count() or 1
-    return max(1, min(THREADS_CAP, cores))
-
-
-def memory_limit() -> int:
-    """Half the machine's memory, at most MEMORY_LIMIT_CAP, in bytes (the cap if unknown)."""
-    try:
-        total = os.sysconf("SC_PAGE_SIZE") * os.sysconf("SC_PHYS_PAGES")
-    except (AttributeError, ValueError, OSError):
-        return MEMORY_LIMIT_CAP
-    return max(256 << 20, min(MEMORY_LIMIT_CAP, total // 2))
 
 
 def _lock(con: Con) -> None:

@@ -1,11 +1,7 @@
-"""profile: step 4 of loading — what each column of TABLE holds (counts, ends, labels), and the
-trailing total row a question must not count."""
+"""profile: step 4 of loading — what each column of TABLE holds (counts, ends, labels)."""
 
 from __future__ import annotations
 
-import re
-
-from . import values
 from .retype import INTEGER_TYPES, VIEW_KINDS, Plan
 from .table import ROW, TABLE, Column, Con, ident
 
@@ -55,25 +51,3 @@ def _bool_values(con: Con, col: Column) -> tuple[str, ...]:
     rows = con.execute(f"SELECT CAST({ref} AS VARCHAR) FROM {TABLE} WHERE {ref} IS NOT NULL "
                        f"GROUP BY {ref} ORDER BY count(*) DESC, min({ident(ROW)})").fetchall()
     return tuple(v for (v,) in rows)
-
-
-_TOTAL_LABEL = re.compile(r"(?:grand |overall )?totals?(?: \(.*\))?")
-
-
-_FIRST_TOTAL_LABEL = re.compile(r"sum|all|(?:grand |overall )?totals?\b.*|.*\btotals?")
-
-
-def total_row(con: Con, plans: list[Plan], row_count: int) -> int | None:
-    """ROW of a last row labelled "Total", "Totals", "Grand total" in any text cell, or in its
-    first text cell "Sum", "All", "Total seats", "Career total" and the like: such a row would be
-    counted and summed with the others. (A last row titled "Total Recall" is taken too.)"""
-    texts = [ident(p.name) for p in plans if p.kind == "text"]
-    if row_count < 2 or not texts:
-        return None
-    row = con.execute(f"SELECT {ident(ROW)}, {', '.join(texts)} FROM {TABLE} "
-                      f"ORDER BY {ident(ROW)} DESC LIMIT 1").fetchone()
-    labels = [values.normal_text(values.strip_footnotes(c)).strip(" :.") for c in row[1:] if c]
-    if labels and (_FIRST_TOTAL_LABEL.fullmatch(labels[0])
-                   or any(_TOTAL_LABEL.fullmatch(label) for label in labels)):
-        return row[0]
-    return None

@@ -16,6 +16,7 @@ from dataclasses import dataclass, field
 
 from . import values
 from .table import ROW, TABLE, VALUE_CAP, ColumnRead, Con, ReadReport, ident, literal
+from .totals import find_totals
 
 VIEW_SHARE = 0.7             # share of a text column's real cells that must parse to get a view
 
@@ -284,6 +285,7 @@ def build(con: Con, headers: list[str], report: ReadReport) -> tuple[list[Plan],
     ordered = [p for p in ordered if p.header or p.nonnull] or ordered[:1]
     _write_table(con, ordered, mapping)
     row_count = con.execute(f"SELECT count(*) FROM {TABLE}").fetchone()[0]
+    row_count -= _leave_out_totals(con, ordered, row_count, report)
     _categories_as_enums(con, ordered, row_count)
     report.columns = [read for plan in ordered for read in _reads(plan)]
     report.guesses += [f"{p.header or p.name}: {p.how}" for p in ordered if "guessed" in p.how]
@@ -489,16 +491,53 @@ def _categories_as_enums(con: Con, plans: list[Plan], row_count: int) -> None:
 
 
 def _drop_empty_rows(con: Con, plans: list[Plan]) -> None:
-    """Rows without a single cell (",,," lines, blank spreadsheet rows) are dropped, and ROW
-    stays a dense 0-based position among the rows kept."""
+    """Rows without a single cell (",,," lines, blank spreadsheet rows) are dropped."""
     empty = " AND ".join(f"{ident(p.name)} IS NULL" for p in plans)
-    if not con.execute(f"SELECT count(*) FROM {TABLE} WHERE {empty}").fetchone()[0]:
-        return
+    if con.execute(f"SELECT count(*) FROM {TABLE} WHERE {empty}").fetchone()[0]:
+        _drop_rows(con, empty)
+
+
+def _drop_rows(con: Con, where: str) -> None:
+    """Rows matching `where` leave TABLE, and ROW stays a dense 0-based position among the rows
+    kept (so "next" and "previous" still mean the neighbouring row)."""
     row = ident(ROW)
     con.execute(f"CREATE TABLE _kept AS SELECT row_number() OVER (ORDER BY {row}) - 1 AS {row}, "
-                f"* EXCLUDE ({row}) FROM {TABLE} WHERE NOT ({empty}) ORDER BY {row}")
+                f"* EXCLUDE ({row}) FROM {TABLE} WHERE NOT ({where}) ORDER BY {row}")
     con.execute(f"DROP TABLE {TABLE}")
     con.execute(f"ALTER TABLE _kept RENAME TO {TABLE}")
+
+
+def _leave_out_totals(con: Con, plans: list[Plan], row_count: int, report: ReadReport) -> int:
+    """Total and subtotal rows leave TABLE, are reported, and no longer count in the columns'
+    profiles; how many left."""
+    texts = [p.name for p in plans if p.kind == "text"]
+    numbers = [p.name for p in plans if p.kind == "number"]
+    found = find_totals(con, texts, numbers, row_count)
+    if not found:
+        return 0
+    rows = ", ".join(map(str, found))
+    gone = con.execute(f"SELECT {', '.join(ident(p.name) for p in plans)} FROM {TABLE} "
+                       f"WHERE {ident(ROW)} IN ({rows})").fetchall()
+    _drop_rows(con, f"{ident(ROW)} IN ({rows})")
+    first_data_line = (report.header_line or 1) + 1
+    report.skip("total", [first_data_line + row for row in found])
+    for i, plan in enumerate(plans):
+        cells = [r[i] for r in gone if r[i] is not None]
+        plan.nonnull -= len(cells)
+        if plan.kind == "text" and cells:
+            _forget_values(con, plan, {str(c) for c in cells})
+    return len(found)
+
+
+def _forget_values(con: Con, plan: Plan, texts: set[str]) -> None:
+    """Labels only the left-out rows had are no longer values of the column."""
+    ref = ident(plan.name)
+    left = {v for (v,) in con.execute(f"SELECT DISTINCT CAST({ref} AS VARCHAR) FROM {TABLE} "
+                                      f"WHERE CAST({ref} AS VARCHAR) IN (SELECT unnest(?))",
+                                      [sorted(texts)]).fetchall()}
+    lost = texts - left
+    plan.distinct -= len(lost)
+    plan.values = tuple(v for v in plan.values if v not in lost)
 
 
 def _stamps_to_dates(con: Con) -> None:

@@ -100,7 +100,6 @@ class Table:
     path: Path
     title: str                     # file stem, or the SQLite table name
     fingerprint: str               # stable id of the content, for the model's log
-    total_row: int | None = None   # ROW of a trailing "Total"-like row, if there is one
     cache: dict = field(default_factory=dict)   # answers by SQL, for the life of the table
     name: str | None = None        # the SQLite table or sheet read; None for one-table formats
     report: ReadReport | None = None   # how the file was read (None for tables made in memory)

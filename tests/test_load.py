@@ -1,4 +1,5 @@
-"""Tests of the load stage (tabq/load.py and the modules of its steps) and of the cell parsers it uses (tabq/values.py).
+"""Tests of the load stage (tabq/load.py and the modules of its steps) and of the cell parsers
+it uses (tabq/values.py).
 
 All tables here are invented for the tests, except the Palmer penguins check at the end.
 """
@@ -15,7 +16,7 @@ import threading
 import duckdb
 import pytest
 
-from tabq import load, retype, values
+from tabq import limits, retype, values
 from tabq.errors import TableFileError, UnknownTableError
 from tabq.load import load_table
 from tabq.retype import clean_names
@@ -266,17 +267,41 @@ def test_empty_rows_dropped_and_row_dense(tmp_path):
     assert table.row_count == 3
 
 
-def test_total_row(tmp_path):
+def _totals(table) -> list[int]:
+    return [line for s in table.report.skipped if s.why == "total" for line in s.lines]
+
+
+def test_total_rows_are_left_out_and_said(tmp_path):
     text = "Nation,Gold\nArvel,3\nBront,2\nTotal,5\n"
-    assert load_table(write(tmp_path / "medals.csv", text)).total_row == 2
+    medals = load_table(write(tmp_path / "medals.csv", text))
+    assert (medals.row_count, _totals(medals)) == (2, [4])      # the file's line 4
+    assert rows(medals, f"SELECT sum(gold), count(*) FROM {TABLE}") == [(5, 2)]
+    assert medals.column("nation").values == ("Arvel", "Bront")
     text = "Rank,Nation,Gold\n1,Arvel,3\n2,Bront,2\n,Grand total:,5\n"
-    assert load_table(write(tmp_path / "medals2.csv", text)).total_row == 2
+    assert _totals(load_table(write(tmp_path / "medals2.csv", text))) == [4]
     text = "Season,Team,Goals\n2001,Arvel,3\n2002,Bront,2\nCareer totals,,5\n"
-    assert load_table(write(tmp_path / "career.csv", text)).total_row == 2
-    text = "Nation,Gold\nArvel,3\nTotal,5\nBront,2\n"
-    assert load_table(write(tmp_path / "medals3.csv", text)).total_row is None
-    assert load_table(write(tmp_path / "film.csv", "Film,Year\nTotal Recall,1990\nAll Ears,"
-                            "1991\n")).total_row is None
+    assert _totals(load_table(write(tmp_path / "career.csv", text))) == [4]
+
+
+def test_rows_that_only_look_like_totals_stay(tmp_path):
+    text = "Nation,Gold\nArvel,3\nTotal,5\nBront,2\n"     # 5 is not the sum of the rows above
+    assert load_table(write(tmp_path / "medals3.csv", text)).row_count == 3
+    film = load_table(write(tmp_path / "film.csv", "Film,Year\nTotal Recall,1990\nAll Ears,1991\n"))
+    assert film.row_count == 2 and not film.report.skipped
+
+
+def test_subtotal_rows_are_left_out(tmp_path):
+    # a depot report: each region's orders, then its subtotal, then a grand total
+    blocks = {"North": [120.5, 80.0], "South": [42.25, 7.75, 10.0]}
+    lines = ["region,order,amount"]
+    for region, amounts in blocks.items():
+        lines += [f"{region},{region[0]}{i},{a}" for i, a in enumerate(amounts)]
+        lines.append(f"Subtotal {region},,{sum(amounts)}")
+    lines.append(f"Grand total,,{sum(sum(a) for a in blocks.values())}")
+    table = load_table(write(tmp_path / "depot.csv", "\n".join(lines) + "\n"))
+    assert table.row_count == 5 and _totals(table) == [4, 8, 9]
+    assert rows(table, f"SELECT sum(amount) FROM {TABLE}") == [(260.5,)]
+    assert rows(table, f"SELECT {ROW} FROM {TABLE}") == [(i,) for i in range(5)]
 
 
 # ---------------------------------------------------------------- formats
@@ -534,10 +559,10 @@ def test_external_access_blocked(tmp_path):
     threads, spill, memory = rows(table, "SELECT current_setting('threads'), "
                                   "current_setting('temp_directory'), "
                                   "current_setting('memory_limit')")[0]
-    assert (threads, spill) == (load.threads(), "")
-    assert 1 <= threads <= load.THREADS_CAP
+    assert (threads, spill) == (limits.threads(), "")
+    assert 1 <= threads <= limits.THREADS_CAP
     mib = float(memory.split()[0]) * (1024 if memory.endswith("GiB") else 1)
-    assert abs(mib - load.memory_limit() / 2**20) / mib < 0.05   # as DuckDB shows the limit
+    assert abs(mib - limits.memory_limit() / 2**20) / mib < 0.05   # as DuckDB shows the limit
     assert rows(table, f"SELECT count(*) FROM {TABLE}") == [(1,)]
 
 

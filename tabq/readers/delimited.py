@@ -42,6 +42,7 @@ _BOMS = ((codecs.BOM_UTF32_LE, "utf-32"), (codecs.BOM_UTF32_BE, "utf-32"),
 
 def read_csv(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     """The rows of a delimited text file, read the way its own sample says it is written."""
+    csv.field_size_limit(max(csv.field_size_limit(), 1 << 30))   # a long cell is still a cell
     report = ReadReport()
     encoding = text_encoding(_sample_bytes(path))
     with _utf8(path, encoding) as readable:
@@ -251,7 +252,6 @@ def _header_record(path: Path, delim: str, quote: str, escape: str, skip: int) -
 def _python_csv(con: Con, path: Path, layout: _Layout, report: ReadReport) -> list[str]:
     """Any delimited text, streamed: short rows padded, long rows cut to the header's width and
     reported, blank lines left out."""
-    csv.field_size_limit(max(csv.field_size_limit(), 1 << 30))
     long_rows: list[int] = []
     with path.open(encoding="utf-8-sig", errors="replace", newline="") as f:
         for _ in range(layout.header_line):

@@ -14,6 +14,9 @@ from ..errors import UnknownTableError
 from ..table import Con, ReadReport, ident
 
 CHUNK = 50_000        # rows per insert from the Python readers
+# Longest staged line DuckDB accepts. DuckDB 1.x asks for 16 times this in one block: 4 MiB keeps
+# that within tabq's smallest memory limit (256 MiB) on every DuckDB it allows (docs/packaging.md)
+LINE_MAX = 1 << 22
 
 
 @dataclass
@@ -39,7 +42,7 @@ def insert_rows(con: Con, width: int, rows: Iterable[list]) -> None:
             csv.writer(f, lineterminator="\n").writerows(rows)
         con.execute("CREATE TABLE _src AS SELECT * FROM read_csv(?, columns = ?, header = false, "
                     "auto_detect = false, delim = ',', quote = '\"', escape = '\"', "
-                    "new_line = '\\n', max_line_size = ?)", [str(staged), columns, 1 << 30])
+                    "new_line = '\\n', max_line_size = ?)", [str(staged), columns, LINE_MAX])
 
 
 def staging_names(con: Con) -> list[str]:

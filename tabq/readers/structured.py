@@ -13,6 +13,7 @@ import duckdb
 
 from ..errors import TableFileError
 from ..files import decode, shown
+from ..limits import memory_limit
 from ..table import Con
 from .staging import Source, cell_text, insert_rows, staging_names
 
@@ -63,7 +64,6 @@ def read_arrow(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     except ImportError:
         raise TableFileError(f"{shown(path)}: reading Arrow/Feather files needs pyarrow "
                              "(pip install pyarrow)") from None
-    from ..load import memory_limit   # here: load imports the readers
     size, limit = path.stat().st_size, memory_limit()
     if size > limit:   # read outside DuckDB's memory limit: refuse what could not fit anyway
         raise TableFileError(f"{shown(path)}: too large to load "
