@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import datetime
 import time
-from collections import defaultdict
+from collections import Counter, defaultdict
 from dataclasses import dataclass, field
 
 from rapidfuzz import fuzz
@@ -337,7 +337,7 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline
             if not hits:
                 for col, value in index["stem"].get(stems, []):
                     add("ENTITY", (col, value), (i, j), "stem")
-            _partial(index, span_tokens, stems, (i, j), content, add)
+            _partial(index, span_tokens, stems, (i, j), content, add, table)
     _fuzzy(index, tokens, content, found, add, deadline)
     _floating(table, words, found, col_match, col_spans, content, atoms)
     for atom in found.values():
@@ -358,7 +358,7 @@ def _with_column_words(entities: list[Atom], col_spans, content) -> list[Atom]:
     return merged
 
 
-def _partial(index, span_tokens, stems, span, content, add):
+def _partial(index, span_tokens, stems, span, content, add, table):
     """A phrase inside a longer cell: "derboven" in "Willy Derboven (BEL)"."""
     parts = stems.split()
     if not parts or not any(k in content for k in range(*span)):
@@ -367,11 +367,15 @@ def _partial(index, span_tokens, stems, span, content, add):
     if len(candidates) > 200:   # a very common word says little
         return
     text = " ".join(t.text for t in span_tokens)
-    for col, value, vstems in candidates:
-        n = len(parts)
-        if len(vstems) > n and any(list(vstems[k:k + n]) == parts for k in range(len(vstems))):
-            add("ENTITY", (col, value), span, "partial")
-            add("CONTAINS", (col, text), span, "partial")
+    n = len(parts)
+    inside = [(col, value) for col, value, vstems in candidates
+              if len(vstems) > n and any(list(vstems[k:k + n]) == parts for k in range(len(vstems)))]
+    per_column = Counter(col for col, _ in inside)
+    for col, value in inside:
+        if per_column[col] > 1 and per_column[col] >= table.column(col).distinct:
+            continue   # in every value of the column ("sales" in sales_01.csv, sales_02.csv)
+        add("ENTITY", (col, value), span, "partial")
+        add("CONTAINS", (col, text), span, "partial")
 
 
 def _fuzzy(index, tokens, content, found, add, deadline=None):

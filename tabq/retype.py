@@ -251,6 +251,7 @@ class Plan:
     views: tuple[str, ...] = ()     # "number", "number2", "date", "year" columns it carries
     parsed: dict[str, float] = field(default_factory=dict)   # view → share of cells it read
     how: str = ""                   # the reading choice a retyped column needed, in words
+    missing: tuple[int, tuple[str, ...]] = (0, ())   # cells spelled as missing, and spellings
 
 
 def build(con: Con, headers: list[str], report: ReadReport) -> tuple[list[Plan], int]:
@@ -288,8 +289,21 @@ def build(con: Con, headers: list[str], report: ReadReport) -> tuple[list[Plan],
     row_count -= _leave_out_totals(con, ordered, row_count, report)
     _categories_as_enums(con, ordered, row_count)
     report.columns = [read for plan in ordered for read in _reads(plan)]
-    report.guesses += [f"{p.header or p.name}: {p.how}" for p in ordered if "guessed" in p.how]
+    report.guesses += [note for plan in ordered for note in _choices(plan)]
     return ordered, row_count
+
+
+def _choices(plan: Plan) -> list[str]:
+    """What a reader should know about how a typed column's cells were read, in words."""
+    said = []
+    if plan.kind == "date" and "first" in plan.how:
+        said.append(f"{plan.header or plan.name}: dates read {plan.how}")
+    cells, spellings = plan.missing
+    if cells:
+        shown = ", ".join(f'"{s}"' for s in spellings)
+        said.append(f"{plan.header or plan.name}: {cells} cell{'s' if cells > 1 else ''} "
+                    f"written {shown} read as missing")
+    return said
 
 
 def _reads(plan: Plan) -> list[ColumnRead]:
@@ -351,8 +365,10 @@ def _text_plan(i: int, header: str, name: str, raw: str, rows: list[tuple[str, i
             keys = [text for text, c in clean.items() if c in converted]
             column = f"as_{retype.sql_type}"
             _add_mapping(mapping, i, keys, {column: [converted[clean[k]] for k in keys]})
+            spelled = [c for c in order if c not in converted]   # placeholders, most used first
             return Plan(header, name, retype.kind, f"{alias}.{column}", alias, join,
-                        nonnull=sum(counts[c][0] for c in real), how=retype.how)
+                        nonnull=sum(counts[c][0] for c in real), how=retype.how,
+                        missing=(sum(counts[c][0] for c in spelled), tuple(spelled[:3])))
     weights = [(c, counts[c][0]) for c in order]
     found = derive_views(weights) if views else {}
     # a placeholder in a text column is a missing cell too, so "no sex recorded" finds it

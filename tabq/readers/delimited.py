@@ -50,7 +50,7 @@ def read_csv(con: Con, path: Path, head: bytes, table: str | None) -> Source:
         _note_layout(report, encoding, layout)
         headers = None
         try:
-            headers = _duckdb_csv(con, readable, layout, all_text=layout.decimal == ",")
+            headers = _duckdb_csv(con, readable, layout, report)
         except duckdb.Error as exc:
             if isinstance(exc, (duckdb.OutOfMemoryException, duckdb.InterruptException)):
                 raise
@@ -206,15 +206,20 @@ def _note_layout(report: ReadReport, encoding: str, layout: _Layout) -> None:
 # ---------------------------------------------------------------- reading the rows
 
 
-def _duckdb_csv(con: Con, path: Path, layout: _Layout, all_text: bool) -> list[str] | None:
+def _duckdb_csv(con: Con, path: Path, layout: _Layout, report: ReadReport) -> list[str] | None:
     """Read with DuckDB from the header line on; None when DuckDB sees another shape than the
-    sample does (ragged rows, say), for Python to read instead."""
-    skip = layout.header_line
-    quote, escape, columns = con.execute(
-        "SELECT Quote, Escape, Columns FROM sniff_csv(?, header = true, delim = ?, skip = ?)",
-        [str(path), layout.delimiter, skip]).fetchone()
+    sample does (ragged rows, say), for Python to read instead. With a decimal comma, every
+    column is read as text, for `retype` to read each one's numbers."""
+    skip, all_text = layout.header_line, layout.decimal == ","
+    quote, escape, columns, dates = con.execute(
+        "SELECT Quote, Escape, Columns, DateFormat FROM sniff_csv(?, header = true, delim = ?, "
+        "skip = ?)", [str(path), layout.delimiter, skip]).fetchone()
     if len(columns) != layout.width:
         return None
+    order = _day_order(dates or "")
+    typed = [c["name"] for c in columns if c["type"] == "DATE"]
+    if order and typed and not all_text:
+        report.guesses.append(f"{', '.join(typed)}: dates read {order}")
     quote, escape = ("" if v == "(empty)" else v for v in (quote, escape))
     options = [str(path), layout.delimiter, quote, escape, skip]
     read = "read_csv(?, header = true, delim = ?, quote = ?, escape = ?, skip = ?{})"
@@ -230,6 +235,13 @@ def _duckdb_csv(con: Con, path: Path, layout: _Layout, all_text: bool) -> list[s
     if header is None:
         header = names
     return (header + [""] * len(names))[: len(names)]
+
+
+def _day_order(date_format: str) -> str | None:
+    """"day first" or "month first" for a numeric date format DuckDB chose, else None."""
+    if "%Y" in date_format[:2] or "%d" not in date_format or "%m" not in date_format:
+        return None
+    return "day first" if date_format.index("%d") < date_format.index("%m") else "month first"
 
 
 def _header_record(path: Path, delim: str, quote: str, escape: str, skip: int) -> list[str] | None:

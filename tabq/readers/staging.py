@@ -86,3 +86,30 @@ def cell_text(value: object) -> str | None:
     if isinstance(value, (dict, list)):
         return json.dumps(value, ensure_ascii=False)
     return str(value)
+
+
+FLATTEN_MAX = 1_000   # most columns nested objects may unfold into; beyond, they stay JSON text
+
+
+def flatten_objects(con: Con, headers: list[str]) -> list[str]:
+    """Nested objects (STRUCT columns, as JSON and Parquet give them) unfolded into a column per
+    field, named by their path: {"customer": {"city": …}} gives the column "customer city".
+    Lists stay one column, as their JSON text. The headers of the new `_src`."""
+    relation = con.table("_src")
+    fields = [leaf for name, kind in zip(relation.columns, relation.dtypes, strict=True)
+              for leaf in _leaves([name], kind)]
+    if len(fields) == len(relation.columns) or len(fields) > FLATTEN_MAX:
+        return headers
+    top = dict(zip(relation.columns, headers, strict=True))
+    selects = [".".join(ident(p) for p in path) + f" AS {ident(f'c{i}')}"
+               for i, path in enumerate(fields)]
+    con.execute(f"CREATE TABLE _flat AS SELECT {', '.join(selects)} FROM _src ORDER BY rowid")
+    con.execute("DROP TABLE _src")
+    con.execute("ALTER TABLE _flat RENAME TO _src")
+    return [" ".join([top[path[0]], *path[1:]]) for path in fields]
+
+
+def _leaves(path: list[str], kind) -> list[list[str]]:
+    if kind.id != "struct" or not kind.children:
+        return [path]
+    return [leaf for name, child in kind.children for leaf in _leaves(path + [name], child)]

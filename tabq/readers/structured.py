@@ -15,12 +15,12 @@ from ..errors import TableFileError
 from ..files import decode, shown
 from ..limits import memory_limit
 from ..table import Con
-from .staging import Source, cell_text, insert_rows, staging_names
+from .staging import Source, cell_text, flatten_objects, insert_rows, staging_names
 
 
 def read_parquet(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     con.execute("CREATE TABLE _src AS SELECT * FROM read_parquet(?)", [str(path)])
-    return Source(staging_names(con), path.stem)
+    return Source(flatten_objects(con, staging_names(con)), path.stem)
 
 
 def read_json(con: Con, path: Path, head: bytes, table: str | None) -> Source:
@@ -28,7 +28,7 @@ def read_json(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     try:
         con.execute("CREATE TABLE _src AS SELECT * FROM read_json(?)", [str(path)])
         if con.execute("SELECT count(*) FROM _src").fetchone()[0]:
-            return Source(staging_names(con), path.stem)
+            return Source(flatten_objects(con, staging_names(con)), path.stem)
     except duckdb.Error as exc:
         if isinstance(exc, (duckdb.OutOfMemoryException, duckdb.InterruptException)):
             raise
