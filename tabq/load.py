@@ -26,7 +26,7 @@ from .profile import profile
 from .readers import LISTERS, READERS, Source
 from .readers.several import read_several
 from .retype import build
-from .limits import memory_limit, threads
+from .limits import memory_limit, threads, too_wide
 from .table import Con, Table
 
 
@@ -75,6 +75,8 @@ def _load(what: Given, table: str | None) -> Table:
             source = read_several(con, what.parts, table, _read_part, what.title)
         else:
             source = _read_part(con, what.parts[0], table)
+        if reason := too_wide(len(source.headers)):
+            raise TableFileError(f"{what.shown}: {reason}")
         plans, row_count = build(con, source.headers, source.report)
         columns = profile(con, plans, row_count)
         _lock(con)

@@ -655,3 +655,15 @@ def test_numeric_dates_read_the_way_the_column_settles(tmp_path):
         assert rows(table, f"SELECT day FROM {TABLE} ORDER BY {ROW}") == \
             [(d,) for d in days] + [(None,)]
         assert ("day first" if order else "month first") in table.report.columns[1].how
+
+
+def test_wide_tables_load_or_are_refused_in_one_line(tmp_path):
+    # 1,000 columns of 4 rows: one distinct count per column in one scan took DuckDB past 4 GB
+    header = ",".join(f"c{i}" for i in range(1000))
+    body = "".join(",".join(str(r * i % 97) for i in range(1000)) + "\n" for r in range(4))
+    table = load_table(write(tmp_path / "wide.csv", header + "\n" + body))
+    assert (table.row_count, len(table.columns)) == (4, 1000)
+    assert table.column("c999").maximum == max(r * 999 % 97 for r in range(4))
+    wider = ",".join(f"c{i}" for i in range(limits.COLUMNS_MAX + 1))
+    message = fail(write(tmp_path / "wider.csv", wider + "\n" + wider + "\n"))
+    assert f"{limits.COLUMNS_MAX + 1:,} columns" in message

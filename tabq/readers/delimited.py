@@ -26,6 +26,7 @@ import duckdb
 from .. import values
 from ..errors import TableFileError
 from ..files import shown
+from ..limits import too_wide
 from ..table import Con, ReadReport
 from .staging import Source, insert_rows, staging_names
 
@@ -47,6 +48,8 @@ def read_csv(con: Con, path: Path, head: bytes, table: str | None) -> Source:
     encoding = text_encoding(_sample_bytes(path))
     with _utf8(path, encoding) as readable:
         layout = _layout(_sample_text(readable), path.suffix.lower())
+        if reason := too_wide(layout.width):
+            raise TableFileError(f"{shown(path)}: {reason}")
         _note_layout(report, encoding, layout)
         headers = None
         try:

@@ -35,6 +35,7 @@ from xml.etree import ElementTree
 
 from ..errors import TableFileError
 from ..files import one_line, shown
+from ..limits import COLUMNS_MAX
 from ..table import Con
 from .staging import Source, choose, insert_rows
 
@@ -51,10 +52,8 @@ CELL_BUDGET = 5_000_000
 # Shared strings (each ~50 bytes in calamine's memory even when empty): as many as cells.
 STRING_BUDGET = CELL_BUDGET
 
-# Columns of one sheet. Loading time grows fast with columns (a 500-column CSV of 50 rows takes
-# seconds to type and profile, 2,000 columns minutes), and a sheet wider than this is nearly
-# always padding or a transposed table.
-COLUMN_BUDGET = 1_024
+# Columns of one sheet: as for every table (limits.COLUMNS_MAX).
+COLUMN_BUDGET = COLUMNS_MAX
 
 # Small parts (the workbook's sheet list and its links) are parsed as XML here: they stay small.
 SMALL_PART = 16 << 20
