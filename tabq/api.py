@@ -13,18 +13,20 @@ from .load import load_table
 from .model import Model
 from .pipeline import OpenTable, Reading, Result
 from .store import ModelFolder
+from .table import ReadChoices
 from .teaching import current
 
 __all__ = ["OpenTable", "Reading", "Result", "open"]
 
 
 def open(path: str | Path, model: str | Path | Model | None = None,
-         table: str | None = None) -> OpenTable:
+         table: str | None = None, choices: ReadChoices | None = None) -> OpenTable:
     """Load a table file (CSV, TSV, Parquet, JSON lines, Excel, SQLite) for questions.
 
     `model` is a model folder or a `Model`; without one, the default folder's, as `tabq ask`
     uses ($TABQ_MODEL, else the per-user folder). `Model.prior()` is the untaught model.
-    A folder whose weights file is missing is rebuilt from its log first.
+    A folder whose weights file is missing is rebuilt from its log first. `choices` overrule
+    tabq's reading guesses (header line, decimal mark, encoding) when they were wrong.
     """
     chosen = model if isinstance(model, Model) else current(ModelFolder(model))  # fails first
-    return OpenTable(load_table(path, table), chosen)
+    return OpenTable(load_table(path, table, choices), chosen)

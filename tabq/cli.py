@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import json
 import math
 import os
@@ -10,9 +11,10 @@ import sys
 import warnings
 
 from . import api
-from .errors import TabqError
+from .errors import InputError, TabqError
 from .output import as_json, format_result
 from .safeio import printable, reason
+from .table import ReadChoices
 
 EXAMPLES = {
     "ask": 'tabq ask sample_tables/repair_jobs.csv "how many jobs were cancelled"',
@@ -42,6 +44,7 @@ def _parser() -> argparse.ArgumentParser:
     ask.add_argument("question", help="the question, in plain English")
     ask.add_argument("--table", dest="table_name", metavar="NAME",
                      help="which table or sheet of a SQLite or Excel file")
+    _reading_options(ask)
     ask.add_argument("--model", metavar="DIR",
                      help="a model folder (default: $TABQ_MODEL, else your per-user tabq "
                      "folder; the untaught model until something is taught)")
@@ -59,6 +62,7 @@ def _parser() -> argparse.ArgumentParser:
     teach.add_argument("examples", help="a JSON-lines file of {\"question\", \"answer\"}")
     teach.add_argument("--table", dest="table_name", metavar="NAME",
                        help="which table or sheet of a SQLite or Excel file")
+    _reading_options(teach)
     teach.add_argument("--model", metavar="DIR",
                        help="the model folder (default: your per-user tabq folder)")
     _learning_options(teach)
@@ -99,10 +103,28 @@ def _parser() -> argparse.ArgumentParser:
     ui.add_argument("table", help="a CSV, TSV, Parquet, JSON-lines, Excel or SQLite file")
     ui.add_argument("--table", dest="table_name", metavar="NAME",
                     help="which table or sheet of a SQLite or Excel file")
+    _reading_options(ui)
     ui.add_argument("--model", metavar="DIR",
                     help="the model folder to teach (default: your per-user tabq folder)")
     ui.set_defaults(run=_ui)
     return parser
+
+
+def _reading_options(command: argparse.ArgumentParser) -> None:
+    """Choices that overrule tabq's reading guesses, when the read notes show a wrong one."""
+    command.add_argument("--header-line", type=int, metavar="N",
+                         help="the header is on line (or sheet row) N, counting from 1")
+    command.add_argument("--decimal-mark", choices=(".", ","),
+                         help="the decimal mark of the file's numbers")
+    command.add_argument("--encoding", metavar="NAME",
+                         help="the text encoding of a CSV file (utf-8, cp1252, cp1251, ...)")
+
+
+def _choices(args: argparse.Namespace) -> ReadChoices | None:
+    if args.header_line is not None and args.header_line < 1:
+        raise InputError("--header-line counts from 1")
+    return ReadChoices.of({"header_line": args.header_line, "decimal_mark": args.decimal_mark,
+                           "encoding": args.encoding})
 
 
 def _lexicon_parser(commands) -> None:
@@ -324,7 +346,8 @@ def _finite(data: object) -> object:
 
 def _ask(args: argparse.Namespace) -> int:
     # no --model: the default folder, as `tabq.open` and `tabq teach` use
-    table = api.open(args.table, model=args.model, table=args.table_name)
+    table = api.open(args.table, model=args.model, table=args.table_name,
+                     choices=_choices(args))
     result = table.ask(args.question)
     top = max(1, args.top)
     if args.json:
@@ -338,8 +361,10 @@ def _teach(args: argparse.Namespace) -> int:
     from .load import load_table
     from .store import ModelFolder
     from .teaching import read_examples, teach
-    load_table(args.table, args.table_name)  # a bad table is refused before any logging
+    choices = _choices(args)
+    load_table(args.table, args.table_name, choices)  # a bad table is refused before any logging
     jobs = read_examples(args.examples, table=args.table, table_name=args.table_name)
+    jobs = [dataclasses.replace(job, reading=choices) for job in jobs]
     folder = ModelFolder(args.model)
     report = teach(folder, jobs, args.objective, args.epochs, args.workers)
     print(f"taught {report.taught} confirmations ({report.reachable} with a reading that gives "
@@ -398,7 +423,7 @@ def _eval(args: argparse.Namespace) -> int:
 
 def _ui(args: argparse.Namespace) -> int:
     from .ui import run
-    run(args.table, args.model, args.table_name)
+    run(args.table, args.model, args.table_name, _choices(args))
     return 0
 
 

@@ -195,10 +195,10 @@ def _senses_again(old: list[records.Confirmation], model: Model) -> dict[int, li
     out: dict[int, list[str]] = {}
     by_table: dict[tuple, list[records.Confirmation]] = defaultdict(list)
     for record in old:
-        by_table[record.table.path, record.table.name].append(record)
-    for (path, name), group in by_table.items():
+        by_table[record.table.path, record.table.name, record.table.reading].append(record)
+    for (path, name, reading), group in by_table.items():
         try:
-            table = OpenTable(load_table(path, name), model)
+            table = OpenTable(load_table(path, name, reading), model)
         except TabqError:
             continue
         for record in group:

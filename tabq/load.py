@@ -15,6 +15,7 @@ The stage runs in four steps, each its own module:
 
 from __future__ import annotations
 
+import functools
 from pathlib import Path
 
 import duckdb
@@ -22,26 +23,28 @@ import duckdb
 from .errors import TableFileError, TabqError
 from .files import one_line
 from .inputs import Given, Part, given, shown_given
+from .limits import memory_limit, threads, too_wide
 from .profile import profile
 from .readers import LISTERS, READERS, Source
 from .readers.several import read_several
 from .retype import build
-from .limits import memory_limit, threads, too_wide
-from .table import Con, Table
+from .table import Con, ReadChoices, Table
 
 
-def load_table(path: str | Path, table: str | None = None) -> Table:
+def load_table(path: str | Path, table: str | None = None,
+               choices: ReadChoices | None = None) -> Table:
     """Read a table file into an in-memory DuckDB table: CSV/TSV, Parquet, JSON lines, Excel,
     SQLite, DuckDB or Arrow IPC, or one of these compressed (.gz, .zst); "-" for standard input;
     a folder or a glob pattern for several files of the same columns, read as one table.
 
     `table` names a table of a database file or a sheet; other formats hold one table and ignore
-    it. Every failure is a TabqError with a one-line message that names the file.
+    it. `choices` overrule tabq's own reading guesses (header line, decimal mark, encoding).
+    Every failure is a TabqError with a one-line message that names the file.
     """
     name = shown_given(path)
     try:
         with given(path) as what:
-            return _load(what, table)
+            return _load(what, table, choices)
     except TabqError:
         raise
     except (MemoryError, duckdb.OutOfMemoryException) as exc:
@@ -68,16 +71,18 @@ def table_names(path: str | Path) -> list[str]:
                                  f"({part.unstaged(one_line(exc))})") from exc
 
 
-def _load(what: Given, table: str | None) -> Table:
+def _load(what: Given, table: str | None, choices: ReadChoices | None) -> Table:
     con = _connect()
     try:
         if what.several:
-            source = read_several(con, what.parts, table, _read_part, what.title)
+            read_one = functools.partial(_read_part, choices=choices)
+            source = read_several(con, what.parts, table, read_one, what.title)
         else:
-            source = _read_part(con, what.parts[0], table)
+            source = _read_part(con, what.parts[0], table, choices)
         if reason := too_wide(len(source.headers)):
             raise TableFileError(f"{what.shown}: {reason}")
-        plans, row_count = build(con, source.headers, source.report)
+        plans, row_count = build(con, source.headers, source.report,
+                                 forced=bool(choices and choices.decimal_mark))
         columns = profile(con, plans, row_count)
         _lock(con)
     except BaseException:
@@ -88,14 +93,15 @@ def _load(what: Given, table: str | None) -> Table:
         digest.update(b"\0" + source.table.encode())
     return Table(con=con, columns=columns, row_count=row_count, path=what.origin,
                  title=source.title, fingerprint=digest.hexdigest(),
-                 name=source.table, report=source.report)
+                 name=source.table, report=source.report, reading=choices)
 
 
-def _read_part(con: Con, part: Part, table: str | None) -> Source:
+def _read_part(con: Con, part: Part, table: str | None,
+               choices: ReadChoices | None = None) -> Source:
     """One file by its format's reader. A reader given a private copy or link names it in
     its messages: they are made to name the user's file."""
     try:
-        source = READERS[part.kind](con, part.path, part.head, table)
+        source = READERS[part.kind](con, part.path, part.head, table, choices)
     except TabqError as exc:
         if not part.staged:
             raise

@@ -32,7 +32,7 @@ from pathlib import Path
 
 from .errors import ModelError
 from .safeio import open_regular, read_bounded, reason
-from .table import TableRef
+from .table import ReadChoices, TableRef
 
 LOG_FORMAT = "tabq-log"
 LOG_VERSION = 2
@@ -98,7 +98,8 @@ def encode(record: Record) -> dict:
         table = record.table
         data = {"kind": "confirmation", "id": record.id, "question": record.question,
                 "table": {"path": table.path, "name": table.name,
-                          "fingerprint": table.fingerprint},
+                          "fingerprint": table.fingerprint,
+                          **({"reading": table.reading.as_dict()} if table.reading else {})},
                 "answer": record.answer, "query": record.query, "senses": record.senses,
                 "time": record.time, "batch": record.batch}
         for key in ("strength", "rows", "rows_answer", "meant"):
@@ -137,7 +138,8 @@ def _confirmation(data: dict) -> Confirmation:
     if isinstance(table, str):          # version 1: a path, the fingerprint beside it
         ref = TableRef(table, None, data.get("fingerprint"))
     else:
-        ref = TableRef(str(table["path"]), table.get("name"), table.get("fingerprint"))
+        ref = TableRef(str(table["path"]), table.get("name"), table.get("fingerprint"),
+                       ReadChoices.of(table.get("reading")))
     question, answer = data["question"], data["answer"]
     if not isinstance(question, str) or not isinstance(answer, list):
         raise TypeError("a confirmation needs a question string and an answer list")

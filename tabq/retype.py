@@ -170,15 +170,18 @@ class Hints:
 
     decimal: str | None = None      # "." or ",", from the reader's look at the whole file
     dayfirst: bool | None = None
+    forced: bool = False            # the decimal mark was a person's choice: no column decides
 
 
 def _retypes(texts: list[str], hints: Hints) -> tuple[_Retype, ...]:
     """The strict retypes, then formatted amounts and numeric dates read the way this column's
     own cells settle it (else the file's way, else the common default)."""
-    mark = values.decimal_mark(texts) or hints.decimal or "."
+    mark = (hints.forced and hints.decimal) or values.decimal_mark(texts) or hints.decimal or "."
     order = values.numeric_date_order(texts)
     dayfirst = order if order is not None else bool(hints.dayfirst)
-    return _STRICT + (
+    # with a decimal comma, "1.234" is a thousand and more: the plain float reading is wrong
+    strict = _STRICT if mark == "." else tuple(r for r in _STRICT if r.convert is not _to_float)
+    return strict + (
         _Retype("number", "DOUBLE", functools.partial(values.parse_amount, decimal=mark),
                 _amount_sql(mark), _amount_how(texts, mark)),
         _Retype("date", "DATE", functools.partial(values.parse_numeric_date, dayfirst=dayfirst),
@@ -254,11 +257,12 @@ class Plan:
     missing: tuple[int, tuple[str, ...]] = (0, ())   # cells spelled as missing, and spellings
 
 
-def build(con: Con, headers: list[str], report: ReadReport) -> tuple[list[Plan], int]:
+def build(con: Con, headers: list[str], report: ReadReport,
+          forced: bool = False) -> tuple[list[Plan], int]:
     """Staging table in; TABLE out, with how each column was made and the row count. How each
     column was read goes into `report`, whose decimal mark also guides columns that do not
-    settle their own."""
-    hints = Hints(report.decimal_mark, report.decimal_mark == "," or None)
+    settle their own; with `forced` (a person chose it), every column."""
+    hints = Hints(report.decimal_mark, report.decimal_mark == "," or None, forced)
     described = con.execute("DESCRIBE _src").fetchall()
     headers = [values.clean_cell(h) or "" for h in headers]
     headers = (headers + [""] * len(described))[: len(described)]

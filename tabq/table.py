@@ -33,6 +33,26 @@ class Column:
 
 
 @dataclass(frozen=True)
+class ReadChoices:
+    """Reading choices a person made because tabq's own guess was wrong; None = let tabq decide.
+    A confirmation keeps them, so what was taught is asked again of the table as it was read."""
+
+    header_line: int | None = None    # 1-based line (or sheet row) of the header
+    decimal_mark: str | None = None   # "." or ","
+    encoding: str | None = None       # a Python codec name, for text files
+
+    def as_dict(self) -> dict:
+        return {k: v for k, v in vars(self).items() if v is not None}
+
+    @classmethod
+    def of(cls, data: dict | None) -> ReadChoices | None:
+        """From `as_dict`'s form; None for no choices."""
+        known = {k: data[k] for k in ("header_line", "decimal_mark", "encoding")
+                 if isinstance(data, dict) and data.get(k) is not None}
+        return cls(**known) if known else None
+
+
+@dataclass(frozen=True)
 class Skipped:
     """Rows of the file that are not rows of TABLE, and why: so the reader can check them."""
 
@@ -88,6 +108,7 @@ class TableRef:
     path: str
     name: str | None               # a SQLite table or a sheet; None for one-table formats
     fingerprint: str | None        # sha256 of the file (and the name), None when unknown
+    reading: ReadChoices | None = None   # reading choices the table was loaded with
 
 
 @dataclass
@@ -103,11 +124,12 @@ class Table:
     cache: dict = field(default_factory=dict)   # answers by SQL, for the life of the table
     name: str | None = None        # the SQLite table or sheet read; None for one-table formats
     report: ReadReport | None = None   # how the file was read (None for tables made in memory)
+    reading: ReadChoices | None = None   # choices the person made for reading it
 
     @property
     def reference(self) -> TableRef:
         """What a confirmation records so that it can be asked of this same table again."""
-        return TableRef(str(self.path), self.name, self.fingerprint)
+        return TableRef(str(self.path), self.name, self.fingerprint, self.reading)
 
     def column(self, name: str) -> Column:
         by_name = self.cache.get("columns")

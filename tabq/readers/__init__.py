@@ -11,14 +11,14 @@ from __future__ import annotations
 from collections.abc import Callable
 from pathlib import Path
 
-from ..table import Con
+from ..table import Con, ReadChoices
 from .databases import duckdb_tables, read_duckdb, read_sqlite, sqlite_tables
 from .delimited import read_csv
 from .sheets import read_xlsx, sheet_names
 from .staging import Source
 from .structured import read_arrow, read_json, read_parquet
 
-Reader = Callable[[Con, Path, bytes, "str | None"], Source]
+Reader = Callable[[Con, Path, bytes, str | None, ReadChoices | None], Source]
 
 READERS: dict[str, Reader] = {"csv": read_csv, "parquet": read_parquet, "json": read_json,
                               "xlsx": read_xlsx, "sqlite": read_sqlite, "duckdb": read_duckdb,

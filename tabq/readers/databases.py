@@ -22,7 +22,7 @@ import duckdb
 
 from ..errors import TableFileError, UnknownTableError
 from ..files import FILE_BUDGET, one_line, shown, size_text
-from ..table import Con, ident
+from ..table import Con, ReadChoices, ident
 from .staging import CHUNK, Source, cell_text, choose, insert_rows, listing, staging_names
 
 VIEW_SECONDS = 120.0    # longest a view of a database file may take to give its rows
@@ -30,7 +30,8 @@ VIEW_ROWS = 20_000_000  # most rows read from a view: more is a runaway query, n
 
 
 def read_sqlite(con: Con, path: Path, head: bytes,
-                 table: str | None) -> Source:
+                 table: str | None,
+                 choices: ReadChoices | None = None) -> Source:
     """One table (or view) of a SQLite file, opened read-only with Python's sqlite3."""
     name = shown(path)
     try:
@@ -179,7 +180,8 @@ def sqlite_tables(path: Path) -> list[str]:
 _ATTACHED = "_tabq_file"
 
 
-def read_duckdb(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+def read_duckdb(con: Con, path: Path, head: bytes, table: str | None,
+                choices: ReadChoices | None = None) -> Source:
     """One table (or view) of a DuckDB database file, attached read-only: DuckDB then writes
     nothing beside it, and reads a .wal beside it without replaying it into the file."""
     name = shown(path)

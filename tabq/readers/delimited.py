@@ -24,10 +24,10 @@ from pathlib import Path
 import duckdb
 
 from .. import values
-from ..errors import TableFileError
+from ..errors import InputError, TableFileError
 from ..files import shown
 from ..limits import too_wide
-from ..table import Con, ReadReport
+from ..table import Con, ReadChoices, ReadReport
 from .staging import Source, insert_rows, staging_names
 
 SAMPLE_BYTES = 1 << 20   # bytes looked at to choose encoding, delimiter, header and decimal mark
@@ -41,13 +41,16 @@ _BOMS = ((codecs.BOM_UTF32_LE, "utf-32"), (codecs.BOM_UTF32_BE, "utf-32"),
          (codecs.BOM_UTF16_BE, "utf-16"))
 
 
-def read_csv(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+def read_csv(con: Con, path: Path, head: bytes, table: str | None,
+             choices: ReadChoices | None = None) -> Source:
     """The rows of a delimited text file, read the way its own sample says it is written."""
     csv.field_size_limit(max(csv.field_size_limit(), 1 << 30))   # a long cell is still a cell
-    report = ReadReport()
-    encoding = text_encoding(_sample_bytes(path))
+    report, choices = ReadReport(), choices or ReadChoices()
+    encoding = _codec(choices.encoding) if choices.encoding else text_encoding(_sample_bytes(path))
     with _utf8(path, encoding) as readable:
-        layout = _layout(_sample_text(readable), path.suffix.lower())
+        layout = _layout(_sample_text(readable), path.suffix.lower(), choices.header_line)
+        if choices.decimal_mark:
+            layout.decimal = choices.decimal_mark
         if reason := too_wide(layout.width):
             raise TableFileError(f"{shown(path)}: {reason}")
         _note_layout(report, encoding, layout)
@@ -84,6 +87,15 @@ def text_encoding(sample: bytes) -> str:
     calm = min(m.chaos for m in matches)
     usual = [m.encoding for m in matches if m.chaos <= calm and m.encoding in _USUAL]
     return min(usual, key=_USUAL.index) if usual else matches[0].encoding
+
+
+def _codec(name: str) -> str:
+    """The codec a person named, checked: an unknown name is one clean line."""
+    try:
+        return codecs.lookup(name).name
+    except LookupError:
+        raise InputError(f"unknown encoding {name!r} (try utf-8, cp1252, cp1251, latin-1)") \
+            from None
 
 
 def _sample_bytes(path: Path) -> bytes:
@@ -129,13 +141,14 @@ class _Layout:
     decimal: str | None = None
 
 
-def _layout(sample: str, suffix: str) -> _Layout:
+def _layout(sample: str, suffix: str, header_line: int | None = None) -> _Layout:
+    """The sample's layout; `header_line` (1-based), when a person chose it, is the header."""
     delimiter = _delimiter(sample, suffix)
     records = _records(sample, delimiter)
     if not records:
         return _Layout(delimiter)
     width = _usual_width([cells for _, cells in records])
-    at = _header_index(records, width)
+    at = _header_index(records, width) if header_line is None else _chosen(records, header_line)
     line, header = records[at]
     preamble = [line + 1 for line, cells in records[:at] if _filled(cells)]
     body = [cell for _, cells in records[at + 1:] for cell in cells]
@@ -158,6 +171,15 @@ def _records(sample: str, delimiter: str) -> list[tuple[int, list[str]]]:
     if found and not sample.endswith(("\n", "\r")) and len(sample) >= SAMPLE_BYTES:
         found.pop()   # the sample may have cut the last record short
     return found
+
+
+def _chosen(records: list[tuple[int, list[str]]], header_line: int) -> int:
+    """The record that starts on the chosen header line."""
+    for i, (line, _) in enumerate(records):
+        if line + 1 == header_line:
+            return i
+    raise InputError(f"no header on line {header_line}: that line is blank, inside a record or "
+                     "past the first records tabq looks at")
 
 
 def _filled(cells: list[str]) -> int:

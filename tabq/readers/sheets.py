@@ -33,10 +33,10 @@ from pathlib import Path
 from typing import TypeVar
 from xml.etree import ElementTree
 
-from ..errors import TableFileError
+from ..errors import InputError, TableFileError
 from ..files import one_line, shown
 from ..limits import COLUMNS_MAX
-from ..table import Con
+from ..table import Con, ReadChoices
 from .staging import Source, choose, insert_rows
 
 # Bytes of XML the parts calamine parses may unpack to. A real 1M-row × 8-column sheet is about
@@ -63,7 +63,8 @@ PREAMBLE_MAX = 10     # non-blank rows above the header that may be titles or no
 _CHUNK = 4 << 20      # bytes of XML scanned at a time
 
 
-def read_xlsx(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+def read_xlsx(con: Con, path: Path, head: bytes, table: str | None,
+              choices: ReadChoices | None = None) -> Source:
     """The first worksheet, or the one `table` names; its header found past any preamble."""
     name = shown(path)
     parts = _check_workbook(path, name)
@@ -76,7 +77,7 @@ def read_xlsx(con: Con, path: Path, head: bytes, table: str | None) -> Source:
         _check_sheet(path, name, chosen, parts.get(chosen))
         sheet = _calamine(lambda: book.get_sheet_by_name(chosen),
                           f"{name}: cannot read sheet {chosen!r}")
-        source = _calamine(lambda: _stage(con, sheet, name, chosen),
+        source = _calamine(lambda: _stage(con, sheet, name, chosen, choices),
                            f"{name}: cannot read sheet {chosen!r}")
     finally:
         book.close()
@@ -123,13 +124,15 @@ def _calamine(call: Callable[[], T], what: str) -> T:
 # ---------------------------------------------------------------- rows into the staging table
 
 
-def _stage(con: Con, sheet, name: str, chosen: str) -> Source:
-    """The sheet's rows into `_src`: the header row found, the rows above it recorded."""
+def _stage(con: Con, sheet, name: str, chosen: str, choices: ReadChoices | None) -> Source:
+    """The sheet's rows into `_src`: the header row found (or the one a person chose), the rows
+    above it recorded."""
     rows = _numbered(sheet)
     peeked, filled = _peek(rows)
     if not filled:
         raise TableFileError(f"{name}: sheet {chosen!r} is empty")
-    at = header_row(filled)
+    wanted = choices.header_line if choices else None
+    at = header_row(filled) if wanted is None else _chosen_row(filled, wanted, name, chosen)
     line, first = filled[at]
     header = ["" if _blank(v) else str(_cell(v)) for v in first]
     width = len(header)
@@ -208,6 +211,15 @@ def _row(row: list, width: int) -> list:
 
 
 # ---------------------------------------------------------------- where the header is
+
+
+def _chosen_row(rows: list[tuple[int, list]], wanted: int, name: str, sheet: str) -> int:
+    """The filled row a person named as the header (1-based, as the sheet numbers rows)."""
+    for i, (line, _) in enumerate(rows):
+        if line + 1 == wanted:
+            return i
+    raise InputError(f"{name}: sheet {sheet!r} has no header on row {wanted}: that row is blank "
+                     "or past the first rows tabq looks at")
 
 
 def header_row(rows: list[tuple[int, list]]) -> int:

@@ -14,16 +14,18 @@ import duckdb
 from ..errors import TableFileError
 from ..files import decode, shown
 from ..limits import memory_limit
-from ..table import Con
+from ..table import Con, ReadChoices
 from .staging import Source, cell_text, flatten_objects, insert_rows, staging_names
 
 
-def read_parquet(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+def read_parquet(con: Con, path: Path, head: bytes, table: str | None,
+                 choices: ReadChoices | None = None) -> Source:
     con.execute("CREATE TABLE _src AS SELECT * FROM read_parquet(?)", [str(path)])
     return Source(flatten_objects(con, staging_names(con)), path.stem)
 
 
-def read_json(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+def read_json(con: Con, path: Path, head: bytes, table: str | None,
+              choices: ReadChoices | None = None) -> Source:
     """JSON lines or an array of objects: DuckDB's reader, Python's json module as a fallback."""
     try:
         con.execute("CREATE TABLE _src AS SELECT * FROM read_json(?)", [str(path)])
@@ -56,7 +58,8 @@ def _json_records(path: Path) -> list[dict]:
     return records
 
 
-def read_arrow(con: Con, path: Path, head: bytes, table: str | None) -> Source:
+def read_arrow(con: Con, path: Path, head: bytes, table: str | None,
+               choices: ReadChoices | None = None) -> Source:
     """An Arrow IPC file (Feather v2) or a Feather v1 file, through pyarrow when it is
     installed: DuckDB reads Arrow IPC files only through an extension it would download."""
     try:

@@ -9,6 +9,7 @@ from pathlib import Path
 from ..errors import InputError
 from ..records import Confirmation
 from ..safeio import read_bounded
+from ..table import ReadChoices
 
 MAX_BYTES = 100 << 20    # a large evaluation set is a few MB; a FIFO or /dev/zero never ends
 
@@ -31,11 +32,12 @@ class Job:
     rows: list[int] | None = None    # rows on which the meant reading's answer is known too
     rows_answer: list | None = None  # that answer
     meant: str | None = None         # the meant form, when no rows tell it from look-alikes
+    reading: ReadChoices | None = None   # reading choices the table is loaded with
 
     @property
     def search_key(self) -> tuple:
         """What decides a candidate search's outcome besides the model and the beam."""
-        return (self.table, self.table_name, self.question,
+        return (self.table, self.table_name, self.reading, self.question,
                 json.dumps(self.answer, sort_keys=True),
                 json.dumps({"rows": self.rows, "rows_answer": self.rows_answer,
                             "meant": self.meant}, sort_keys=True))
@@ -92,4 +94,4 @@ def job_of(record: Confirmation) -> Job:
     return Job(f"log:{record.batch}:{record.id}", record.question, record.table.path,
                record.answer, table_name=record.table.name,
                strength=1.0 if record.strength is None else record.strength, rows=record.rows,
-               rows_answer=record.rows_answer, meant=record.meant)
+               rows_answer=record.rows_answer, meant=record.meant, reading=record.table.reading)

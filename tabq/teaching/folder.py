@@ -146,7 +146,7 @@ def _confirmation(job: Job, example: Example | None, batch: int) -> Confirmation
         chosen = example.correct.index(True)
         target, fired = example.forms[chosen], senses(example.features(chosen))
     table = example.table if example is not None and example.table is not None else (
-        records.TableRef(job.table, job.table_name, None))
+        records.TableRef(job.table, job.table_name, None, job.reading))
     return Confirmation(job.id, job.question, table, job.answer, target, fired, records.now(),
                         batch, None if job.strength == 1.0 else job.strength, job.rows,
                         job.rows_answer, job.meant)

@@ -35,12 +35,13 @@ def _init(weights: dict[str, float]) -> None:
 def _by_table(jobs: list[Job]) -> list[list[Job]]:
     groups: dict[tuple, list[Job]] = defaultdict(list)
     for job in jobs:
-        groups[job.table, job.table_name].append(job)
+        groups[job.table, job.table_name, job.reading].append(job)
     return list(groups.values())
 
 
 def _open(jobs: list[Job]) -> OpenTable:
-    return OpenTable(load_table(jobs[0].table, jobs[0].table_name), _WORKER_MODEL)
+    first = jobs[0]
+    return OpenTable(load_table(first.table, first.table_name, first.reading), _WORKER_MODEL)
 
 
 def search_batch(jobs: list[Job], execute: int, pair_beam: int) -> list[tuple[str, Example | str]]:

@@ -20,6 +20,7 @@ from textual.widgets import DataTable, Footer, Input, Static, TabbedContent, Tab
 from .. import pipeline
 from ..errors import TabqError
 from ..load import table_names
+from ..table import ReadChoices
 from .learned import entries
 from .session import Comparison, Session, parse_answer, preview
 from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, TablePicker
@@ -41,9 +42,10 @@ class TabqApp(App):
     ]
 
     def __init__(self, path: str | Path, model: str | Path | None = None,
-                 table: str | None = None):
+                 table: str | None = None, choices: ReadChoices | None = None):
         super().__init__()
         self.source = (path, model, table)
+        self.choices = choices      # reading choices that overrule tabq's guesses
         self.session: Session | None = None
         self.loaded = threading.Event()
         self.not_open: str | None = None   # why no table is open, once loading has stopped
@@ -109,7 +111,7 @@ class TabqApp(App):
                 self.not_open = "Choose a table first."
                 self.call_from_thread(self._choose_table, names)
                 return
-            session = Session(path, model, table)
+            session = Session(path, model, table, self.choices)
         except Exception as err:       # bad table or model: shown, and the app stays up
             self.not_open = f"No table is open ({Path(path).name} could not be loaded)."
             self.call_from_thread(self.fail, err)

@@ -22,7 +22,7 @@ from .. import api
 from .. import logic as L
 from ..answers import Denotation, matches
 from ..execute import run_on_rows, run_sql
-from ..table import ROW, TABLE
+from ..table import ROW, TABLE, ReadChoices
 from ..model import Model
 from ..records import Confirmation
 from ..sql import condition
@@ -74,9 +74,9 @@ class Session:
     """A loaded table, a model folder and what was taught in this session."""
 
     def __init__(self, path: str | Path, model: str | Path | None = None,
-                 table: str | None = None):
+                 table: str | None = None, choices: ReadChoices | None = None):
         self.folder = ModelFolder(model)
-        self.open = api.open(path, model=current(self.folder), table=table)
+        self.open = api.open(path, model=current(self.folder), table=table, choices=choices)
         self.path = str(Path(path).resolve())
         self.lock = threading.RLock()          # the table's DuckDB connection
         self.teaching = threading.Lock()       # the search cache and the model folder
@@ -135,7 +135,7 @@ class Session:
         are the pick's extra `Job` fields (strength, rows, rows_answer, meant)."""
         start = time.perf_counter()
         job = Job(f"ui-{uuid.uuid4().hex[:10]}", question, self.path, _plain(answer),
-                  table_name=self.open.table.name, **hints)
+                  table_name=self.open.table.name, reading=self.open.table.reading, **hints)
         with self.teaching:
             with self.lock:   # searched on the table already open (a worker would load it again)
                 self.searches.search_here(self.open, job)
