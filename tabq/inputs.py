@@ -198,20 +198,10 @@ def _decompressed(path: Path, compression: str) -> Iterator[BinaryIO]:
 
 
 def _zstd_reader(path: Path, raw: BinaryIO):
-    """zstandard when installed, else pyarrow's codec when installed; neither is required."""
-    try:
-        import zstandard
-        return zstandard.ZstdDecompressor().stream_reader(raw)
-    except ImportError:
-        pass
-    try:
-        import pyarrow
-        if pyarrow.Codec.is_available("zstd"):
-            return pyarrow.CompressedInputStream(pyarrow.PythonFile(raw, mode="r"), "zstd")
-    except ImportError:
-        pass
-    raise TableFileError(f"{shown(path)}: reading .zst files needs the zstandard package "
-                         "(pip install zstandard)")
+    """A streaming zstandard decompressor (a declared dependency: imported here, as only .zst
+    files need it)."""
+    import zstandard
+    return zstandard.ZstdDecompressor().stream_reader(raw)
 
 
 def _copy_bounded(read: Callable[[int], bytes], target: Path, name: str, what: str) -> None:

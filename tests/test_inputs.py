@@ -368,9 +368,9 @@ def test_standard_input_goes_to_a_private_file(private_tmp, monkeypatch):
     seen = {}
     read_csv = READERS["csv"]
 
-    def spy(con, path, head, table):
+    def spy(con, path, head, table, choices=None):
         seen.update(file=path.stat().st_mode & 0o777, folder=path.parent.stat().st_mode & 0o777)
-        return read_csv(con, path, head, table)
+        return read_csv(con, path, head, table, choices)
 
     monkeypatch.setitem(READERS, "csv", spy)
     table = load_table("-")
