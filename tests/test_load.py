@@ -667,3 +667,10 @@ def test_wide_tables_load_or_are_refused_in_one_line(tmp_path):
     wider = ",".join(f"c{i}" for i in range(limits.COLUMNS_MAX + 1))
     message = fail(write(tmp_path / "wider.csv", wider + "\n" + wider + "\n"))
     assert f"{limits.COLUMNS_MAX + 1:,} columns" in message
+
+
+def test_a_cell_past_the_staging_limit_is_one_line(tmp_path):
+    from tabq.readers.staging import LINE_MAX
+    text = "note,n\n\"" + "z" * (LINE_MAX + 10) + "\",1\n"
+    message = fail(write(tmp_path / "long.csv", text))
+    assert "too long to read" in message and "line 2" in message

@@ -28,7 +28,7 @@ from ..errors import InputError, TableFileError
 from ..files import shown
 from ..limits import too_wide
 from ..table import Con, ReadChoices, ReadReport
-from .staging import Source, insert_rows, staging_names
+from .staging import LINE_MAX, Source, insert_rows, staging_names
 
 SAMPLE_BYTES = 1 << 20   # bytes looked at to choose encoding, delimiter, header and decimal mark
 SAMPLE_RECORDS = 500     # records of the sample used for the layout
@@ -44,7 +44,7 @@ _BOMS = ((codecs.BOM_UTF32_LE, "utf-32"), (codecs.BOM_UTF32_BE, "utf-32"),
 def read_csv(con: Con, path: Path, head: bytes, table: str | None,
              choices: ReadChoices | None = None) -> Source:
     """The rows of a delimited text file, read the way its own sample says it is written."""
-    csv.field_size_limit(max(csv.field_size_limit(), 1 << 30))   # a long cell is still a cell
+    csv.field_size_limit(LINE_MAX)   # a longer cell could not be staged: refused while read
     report, choices = ReadReport(), choices or ReadChoices()
     encoding = _codec(choices.encoding) if choices.encoding else text_encoding(_sample_bytes(path))
     with _utf8(path, encoding) as readable:
@@ -294,20 +294,25 @@ def _python_csv(con: Con, path: Path, layout: _Layout, report: ReadReport) -> li
         for _ in range(layout.header_line):
             f.readline()
         reader = csv.reader(f, delimiter=layout.delimiter)
-        header = next((r for r in reader if _filled(r)), None)
-        if header is None:
-            raise TableFileError(f"{shown(path)}: no header row")
-        width = len(header)
+        try:
+            header = next((r for r in reader if _filled(r)), None)
+            if header is None:
+                raise TableFileError(f"{shown(path)}: no header row")
+            width = len(header)
 
-        def rows() -> Iterator[list]:
-            for cells in reader:
-                if not _filled(cells):
-                    continue
-                if len(cells) > width and _filled(cells[width:]):
-                    long_rows.append(layout.header_line + reader.line_num)
-                yield (cells + [None] * width)[:width]
+            def rows() -> Iterator[list]:
+                for cells in reader:
+                    if not _filled(cells):
+                        continue
+                    if len(cells) > width and _filled(cells[width:]):
+                        long_rows.append(layout.header_line + reader.line_num)
+                    yield (cells + [None] * width)[:width]
 
-        insert_rows(con, width, rows())
+            insert_rows(con, width, rows())
+        except csv.Error as exc:
+            raise TableFileError(f"{shown(path)}: a cell or line near line "
+                                 f"{layout.header_line + reader.line_num} is too long to read "
+                                 f"(at most {LINE_MAX >> 20} MB; {exc})") from None
     if long_rows:
         lines = ", ".join(map(str, long_rows[:5])) + (", ..." if len(long_rows) > 5 else "")
         report.guesses.append(f"{len(long_rows)} row{'s' if len(long_rows) > 1 else ''} had "
