@@ -674,3 +674,29 @@ def test_a_cell_past_the_staging_limit_is_one_line(tmp_path):
     text = "note,n\n\"" + "z" * (LINE_MAX + 10) + "\",1\n"
     message = fail(write(tmp_path / "long.csv", text))
     assert "too long to read" in message and "line 2" in message
+
+
+# ---------------------------------------------------------------- the layout of delimited text
+
+
+def test_preamble_lines_above_the_header_are_left_out_and_said(tmp_path):
+    text = ("Stock count, east store\nCounted by the night shift,,\n\n"
+            "item,shelf,qty\nbolts,A1,30\nnuts,A2,12\n")
+    table = load_table(write(tmp_path / "count.csv", text))
+    assert [c.name for c in table.columns] == ["item", "shelf", "qty"]
+    assert (table.row_count, table.report.header_line) == (2, 4)
+    assert [(s.why, s.lines) for s in table.report.skipped] == [("preamble", (1, 2))]
+
+
+def test_a_trailing_delimiter_keeps_the_header(tmp_path):
+    table = load_table(write(tmp_path / "trail.csv", "name,qty\nbolt,3,\nnut,5,\n"))
+    assert [c.name for c in table.columns] == ["name", "qty"] and table.row_count == 2
+    assert not table.report.notes()
+
+
+def test_a_long_last_line_never_becomes_the_header(tmp_path):
+    body = "".join(f"k{i},{i}\n" for i in range(30))
+    table = load_table(write(tmp_path / "long.csv", "key,n\n" + body + "k30,30,stray\n"))
+    assert [c.name for c in table.columns] == ["key", "n"] and table.row_count == 31
+    assert rows(table, f"SELECT sum(n) FROM {TABLE}") == [(sum(range(31)),)]
+    assert any("line 32" in note for note in table.report.notes())

@@ -188,16 +188,22 @@ def _filled(cells: list[str]) -> int:
 
 
 def _usual_width(rows: list[list[str]]) -> int:
-    """The width most records have: a table's rows outnumber its title and notes."""
-    return Counter(len(cells) for cells in rows).most_common(1)[0][0]
+    """The width most records have, up to their last filled cell (a trailing delimiter adds
+    nothing): a table's rows outnumber its title and notes."""
+    return Counter(_reach(cells) for cells in rows).most_common(1)[0][0]
+
+
+def _reach(cells: list[str]) -> int:
+    """How far a record's cells go: the position of its last filled cell."""
+    return max((i + 1 for i, c in enumerate(cells) if c.strip(values.SPACES)), default=0)
 
 
 def _header_index(records: list[tuple[int, list[str]]], width: int) -> int:
-    """The first record as wide as the table with at least half its cells filled: title and note
-    lines above it are narrower ("Sales, North depot") or mostly empty ("Sales,,,,")."""
+    """The first record reaching as far as the table with at least half its cells filled: title
+    and note lines above it are narrower ("Sales, North depot") or mostly empty ("Sales,,,,")."""
     least = max(1, math.ceil(width / 2))
     for i, (_, cells) in enumerate(records[:PREAMBLE_MAX + 1]):
-        if len(cells) >= width and _filled(cells) >= least:
+        if _reach(cells) >= width and _filled(cells) >= least:
             return i
     return 0
 
