@@ -114,7 +114,7 @@ _EXTENSIONS = {
     ".csv": "csv", ".tsv": "csv", ".tab": "csv", ".txt": "csv",
     ".parquet": "parquet", ".pq": "parquet",
     ".jsonl": "json", ".ndjson": "json", ".json": "json",
-    ".xlsx": "xlsx", ".xlsm": "xlsx",
+    ".xlsx": "xlsx", ".xlsm": "xlsx", ".ods": "ods", ".xlsb": "xlsb", ".xls": "xls",
     ".sqlite": "sqlite", ".sqlite3": "sqlite", ".db": "sqlite",
     ".duckdb": "duckdb", ".ddb": "duckdb",
     ".arrow": "arrow", ".feather": "arrow", ".ipc": "arrow",
@@ -125,8 +125,11 @@ COMPRESSIONS = {".gz": "gzip", ".zst": "zstd"}
 _COMPRESSED_MAGIC = {b"\x1f\x8b": "gzip", b"\x28\xb5\x2f\xfd": "zstd"}
 
 
+# A zip is a workbook (.xlsx, .ods or .xlsb: the sheets reader tells which from its members);
+# OLE2, the container of .xls, is told by its own signature.
 _MAGIC = {b"SQLite format 3\0": "sqlite", b"PAR1": "parquet", b"PK\x03\x04": "xlsx",
-          b"ARROW1": "arrow", b"FEA1": "arrow"}
+          b"ARROW1": "arrow", b"FEA1": "arrow", b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1": "xls"}
+_ZIPPED = ("xlsx", "ods", "xlsb")
 
 
 _TEXT_BOMS = (codecs.BOM_UTF16_LE, codecs.BOM_UTF16_BE)
@@ -146,14 +149,15 @@ def kind_of(path: Path, head: bytes) -> str:
         if is_text(head):
             return "json" if _looks_json(head) else "csv"
         raise TableFileError(f"{name}: not a kind of table file tabq reads (.csv, .tsv, "
-                             ".parquet, .jsonl, .json, .xlsx, .sqlite, .duckdb, .arrow, "
+                             ".parquet, .jsonl, .json, .xlsx, .xls, .ods, .sqlite, .duckdb, "
+                             ".arrow, "
                              "or one of these .gz or .zst)")
     if kind in ("csv", "json") and not is_text(head):
         raise TableFileError(f"{name}: binary content, not {kind.upper()} text")
     if kind in _BINARY and magic != kind:
         raise TableFileError(f"{name}: not {_BINARY[kind]}")
-    if kind == "xlsx" and magic != "xlsx":
-        raise TableFileError(f"{name}: not an Excel .xlsx workbook (not a zip archive)")
+    if kind in _ZIPPED and magic != "xlsx":
+        raise TableFileError(f"{name}: not a {path.suffix.lower()} workbook (not a zip archive)")
     return kind
 
 
@@ -163,7 +167,8 @@ def is_table_name(path: Path) -> bool:
 
 
 _BINARY = {"sqlite": "a SQLite database", "parquet": "a Parquet file",
-           "duckdb": "a DuckDB database", "arrow": "an Arrow IPC (Feather) file"}
+           "duckdb": "a DuckDB database", "arrow": "an Arrow IPC (Feather) file",
+           "xls": "an Excel 97-2003 .xls workbook"}
 
 
 def magic_kind(head: bytes) -> str | None:

@@ -111,7 +111,7 @@ def _read_part(con: Con, part: Part, table: str | None,
     except Exception as exc:
         raise TableFileError(f"{part.shown}: cannot read it "
                              f"({part.unstaged(one_line(exc))})") from exc
-    source.report.format = part.kind
+    source.report.format = source.report.format or part.kind   # a reader's own word wins
     if source.title == part.path.stem:     # a one-table file: titled by the user's name
         source.title = part.title
     return source

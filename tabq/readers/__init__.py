@@ -26,5 +26,8 @@ READERS: dict[str, Reader] = {"csv": read_csv, "parquet": read_parquet, "json": 
 # formats that hold several tables: how to list them, in the order a reader offers them
 LISTERS: dict[str, Callable[[Path], list[str]]] = {"sqlite": sqlite_tables, "xlsx": sheet_names,
                                                    "duckdb": duckdb_tables}
+# every workbook is read by calamine, which tells the format from the content
+for _kind in ("xls", "ods", "xlsb"):
+    READERS[_kind], LISTERS[_kind] = read_xlsx, sheet_names
 
 __all__ = ["LISTERS", "READERS", "Source"]

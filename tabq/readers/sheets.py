@@ -1,9 +1,10 @@
-"""sheets: Excel workbooks (.xlsx, .xlsm), one worksheet at a time, read by calamine.
+"""sheets: workbooks (.xlsx, .xlsm, .xls, .ods), one worksheet at a time, read by calamine.
 
 calamine (Rust) reads a sheet about 13 times faster than openpyxl, and gives dates as dates,
 numbers as numbers and booleans as booleans; an error cell (#DIV/0!) and an empty cell come back
-as "" and are missing cells here. It also reads .xls, .xlsb and .ods, but those are not offered
-yet: the checks below look inside the zip XML of .xlsx alone (see `_check_sheet`).
+as "" and are missing cells here. The format is told from the content (`workbook_format`), as
+calamine will parse it. .xlsb is refused: its binary records are not measured yet. .xls and .ods
+are measured whole before calamine opens them (`workbook_bounds`); what follows is for .xlsx.
 
 Reading is bounded before calamine sees the file, because calamine builds the whole sheet as one
 dense rectangle in memory and a cell far away ("XFD1048576") makes it abort the process:
@@ -37,6 +38,7 @@ from ..errors import InputError, TableFileError
 from ..files import one_line, shown
 from ..limits import COLUMNS_MAX
 from ..table import Con, ReadChoices
+from . import workbook_bounds
 from .staging import Source, choose, insert_rows
 
 # Bytes of XML the parts calamine parses may unpack to. A real 1M-row × 8-column sheet is about
@@ -67,14 +69,16 @@ def read_xlsx(con: Con, path: Path, head: bytes, table: str | None,
               choices: ReadChoices | None = None) -> Source:
     """The first worksheet, or the one `table` names; its header found past any preamble."""
     name = shown(path)
-    parts = _check_workbook(path, name)
-    book = _calamine(lambda: _open(path), f"{name}: not a readable Excel workbook")
+    fmt = workbook_format(path, name)
+    parts = _check_book(path, name, fmt)
+    book = _calamine(lambda: _open(path), f"{name}: not a readable {_WHAT[fmt]}")
     try:
         names = list(book.sheet_names)
         if not names:
             raise TableFileError(f"{name}: the workbook has no worksheets")
         chosen = choose(names, table, name, "sheet") if table else names[0]
-        _check_sheet(path, name, chosen, parts.get(chosen))
+        if fmt == "xlsx":      # the other formats were measured whole, before opening
+            _check_sheet(path, name, chosen, parts.get(chosen))
         sheet = _calamine(lambda: book.get_sheet_by_name(chosen),
                           f"{name}: cannot read sheet {chosen!r}")
         source = _calamine(lambda: _stage(con, sheet, name, chosen, choices),
@@ -83,14 +87,16 @@ def read_xlsx(con: Con, path: Path, head: bytes, table: str | None,
         book.close()
     default = re.fullmatch(r"sheet\s*\d*", chosen.strip(), re.IGNORECASE)
     source.title = path.stem if default else chosen
+    source.report.format = fmt
     return source
 
 
 def sheet_names(path: Path) -> list[str]:
     """The worksheets of a workbook, in its own order."""
     name = shown(path)
-    _check_workbook(path, name)
-    book = _calamine(lambda: _open(path), f"{name}: not a readable Excel workbook")
+    fmt = workbook_format(path, name)
+    _check_book(path, name, fmt)
+    book = _calamine(lambda: _open(path), f"{name}: not a readable {_WHAT[fmt]}")
     try:
         return list(book.sheet_names)
     finally:
@@ -288,6 +294,66 @@ def _filled(rows: Iterable[list], merges: list[_Merge], first: int) -> Iterator[
                 for c in range(max(m.left, 0), min(m.right + 1, len(row))):
                     row[c] = m.value
         yield row
+
+
+# ---------------------------------------------------------------- which format, as calamine sees it
+
+
+_WHAT = {"xlsx": "Excel workbook", "xls": "Excel 97-2003 .xls workbook",
+         "ods": "OpenDocument spreadsheet", "xlsb": "Excel binary .xlsb workbook"}
+# calamine picks its parser by the path's extension, as written (case matters); without one of
+# these it tries .xls, .xlsx, .xlsb and .ods in turn, the order `workbook_format` follows.
+_CALAMINE_EXTENSIONS = {".xls": "xls", ".xla": "xls", ".xlsx": "xlsx", ".xlsm": "xlsx",
+                        ".xlam": "xlsx", ".xlsb": "xlsb", ".ods": "ods"}
+
+
+def workbook_format(path: Path, name: str) -> str:
+    """The format calamine will parse the file as, told from its content: the bounds must be
+    those of that format. A name that says another format is refused."""
+    with path.open("rb") as f:
+        magic = f.read(8)
+    found = "xlsx"                     # not a zip nor OLE2: calamine refuses it
+    if magic == workbook_bounds.OLE2:
+        found = "xls"
+    elif zipfile.is_zipfile(path):
+        found = _zip_format(path)
+    named = _CALAMINE_EXTENSIONS.get(path.suffix)
+    if named is not None and named != found:
+        raise TableFileError(f"{name}: not an {_WHAT[named]}, as its name says (its content "
+                             f"is an {_WHAT[found]})")
+    if found == "xlsb":
+        raise TableFileError(f"{name}: tabq does not read .xlsb workbooks yet; save it as "
+                             ".xlsx and ask again")
+    return found
+
+
+def _zip_format(path: Path) -> str:
+    try:
+        with zipfile.ZipFile(path) as z:
+            members = set(z.namelist())
+            if "xl/workbook.xml" in members:
+                return "xlsx"
+            if "xl/workbook.bin" in members:
+                return "xlsb"
+            if "mimetype" not in members:
+                return "xlsx"
+            with z.open("mimetype") as f:
+                kind = f.read(len(workbook_bounds.ODS_MIMETYPE) + 1)
+    except (zipfile.BadZipFile, OSError, RuntimeError, NotImplementedError):
+        return "xlsx"                  # left to calamine, whose bounds are xlsx's
+    return "ods" if kind.strip() == workbook_bounds.ODS_MIMETYPE else "xlsx"
+
+
+def _check_book(path: Path, name: str, fmt: str) -> dict[str, str]:
+    """The whole workbook measured before calamine opens it; for .xlsx, which reads its
+    sheets one at a time, which part holds each sheet (measured when it is chosen)."""
+    if fmt == "xls":
+        workbook_bounds.check_xls(path, name)
+        return {}
+    parts = _check_workbook(path, name)
+    if fmt == "ods":
+        workbook_bounds.check_ods(path, name, lambda f, info: _chunks(f, info, name))
+    return parts
 
 
 # ---------------------------------------------------------------- bounds, checked before reading
