@@ -1,7 +1,7 @@
 """readers: step 2 of loading — one reader per format copies a file's rows, in file order, into
 the staging table `_src` and says what their headers are.
 
-DuckDB's own readers serve CSV, Parquet, JSON and DuckDB files; Python (csv, openpyxl, sqlite3,
+DuckDB's own readers serve CSV, Parquet, JSON and DuckDB files; Python (csv, calamine, sqlite3,
 json, pyarrow) the rest. Several files of a folder or pattern are read one by one into one table
 by `several`. A format that holds several tables also says which ones it has.
 """
