@@ -190,11 +190,13 @@ def parse_year(text: str | None) -> int | None:
 _CURRENCY = (r"[$€£¥₹₽₩₺₪₴₦฿]|r\$|us\$|fr\.|kr\.?|zł|kč|руб\.?|"
              r"usd|eur|gbp|jpy|chf|cad|aud|nzd|sek|nok|dkk|pln|czk|huf|rub|uah|inr|cny|rmb|hkd|"
              r"sgd|krw|brl|mxn|zar|try|ils|aed|sar")
-_GROUPED = {   # a number with its thousands grouped, by decimal mark; RE2 and Python alike
-    ".": r"[0-9]{1,3}(?:[,' \x{a0}\x{202f}\x{2009}][0-9]{3})+(?:\.[0-9]+)?",
-    ",": r"[0-9]{1,3}(?:[. \x{a0}\x{202f}\x{2009}][0-9]{3})+(?:,[0-9]+)?",
+# No leading zero before more digits ("02139" is a code, not 2139); RE2 and Python alike.
+_GROUPED = {   # a number with its thousands grouped, by decimal mark
+    ".": r"[1-9][0-9]{0,2}(?:[,' \x{a0}\x{202f}\x{2009}][0-9]{3})+(?:\.[0-9]+)?",
+    ",": r"[1-9][0-9]{0,2}(?:[. \x{a0}\x{202f}\x{2009}][0-9]{3})+(?:,[0-9]+)?",
 }
-_PLAIN = {".": r"[0-9]+(?:\.[0-9]+)?|\.[0-9]+", ",": r"[0-9]+(?:,[0-9]+)?|,[0-9]+"}
+_PLAIN = {".": r"(?:0|[1-9][0-9]*)(?:\.[0-9]+)?|\.[0-9]+",
+          ",": r"(?:0|[1-9][0-9]*)(?:,[0-9]+)?|,[0-9]+"}
 
 
 def amount_pattern(decimal: str) -> str:

@@ -608,6 +608,7 @@ def test_palmer_penguins_against_pandas():
     ("-12,5 %", ",", -12.5), ("EUR 300", ".", 300.0), ("1 200-", ".", -1200.0),
     ("1,234", ",", 1.234), ("€ 12,50", ",", 12.5), ("-$1,200", ".", -1200.0),
     ("1'234.5", ".", 1234.5), ("12 pcs", ".", None), ("(5", ".", None), ("+-3", ".", None),
+    ("02139", ".", None), ("0.5", ".", 0.5), ("0,50", ",", 0.5),   # a leading zero is a code
 ])
 def test_parse_amount(text, mark, value):
     assert values.parse_amount(text, mark) == value
