@@ -19,7 +19,7 @@ from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table
 from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
 from .rules import OPERATORS
-from .text import DateMention, Words, normalise, read_question, split_words, stem
+from .text import DateMention, Words, is_word, normalise, read_question, split_words, stem
 
 MAX_QUESTION = 2000      # characters; longer questions are cut, and the result says so
 MAX_NGRAM = 6
@@ -101,7 +101,7 @@ def _content_tokens(words: Words, table: Table) -> frozenset[int]:
     return frozenset(
         t.index for t in words.tokens
         if not t.stop and t.stem not in cue_stems and t.stem not in row_nouns
-        and t.text not in CUE_WORDS and (t.text[0].isalnum())
+        and t.text not in CUE_WORDS and is_word(t.text)
     )
 
 
@@ -120,7 +120,7 @@ def question_grams(question: str) -> tuple[str, ...]:
 
 
 def _grams(words: Words) -> tuple[str, ...]:
-    stems = [t.stem for t in words.tokens if t.text[0].isalnum() or t.text == "n't"]
+    stems = [t.stem for t in words.tokens if is_word(t.text) or t.text == "n't"]
     grams = set(stems) | {f"{a} {b}" for a, b in zip(stems, stems[1:])}
     grams |= {f"{a} {b} {c}" for a, b, c in zip(stems, stems[1:], stems[2:])}
     return tuple(sorted(grams))
@@ -236,11 +236,62 @@ def _match_header(header: tuple[list[str], set[str]], stems: list[str], words: W
         if any(h in SYNONYMS.get(s, ()) or (base and (h == base or h in SYNONYMS.get(base, ())))
                for h in core):
             return "synonym", (i, i + 1)
+    shortened = _shortened_mention(core, words)
+    if shortened:
+        return "abbrev", shortened
     for i, s in enumerate(stems):
         if len(s) >= 4 and not words.tokens[i].stop and any(
                 len(h) >= 4 and fuzz.ratio(s, h) >= 84 for h in core):
             return "fuzzy", (i, i + 1)
     return "none", None
+
+
+def _shortened_mention(core: set[str], words: Words) -> tuple[int, int] | None:
+    """The span of question words whose shortenings are the header's words, as terse headers
+    write them: wt for weight, prcp for precipitation, unitpr for unit price, temp hi for a
+    high (or peak, by a synonym) temperature. Every header word must be said, so that one
+    shared word (temp of temp_lo) does not name a column by itself."""
+    said: dict[str, int] = {}
+    content = [t for t in words.tokens if not t.stop and t.text[:1].isalpha()]
+    for k, tok in enumerate(content):
+        following = content[k + 1] if k + 1 < len(content) else None
+        for h in core:
+            if h in said or not h.isalpha():
+                continue
+            if any(_shortens(h, full) for full in _spellings(tok)):
+                said[h] = tok.index
+            elif following and following.index - tok.index == 1 and _joins(h, tok, following):
+                said[h] = following.index
+    if not core or set(said) != core:
+        return None
+    first, last = min(said.values()), max(said.values())
+    return (first, last + 1) if last - first <= 2 else None
+
+
+def _spellings(tok) -> set[str]:
+    """A question word and the words it may stand for (peak → high, warmest → temperature)."""
+    out = {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())}
+    base = _degree_base(tok.text)
+    if base:
+        out |= {base, *SYNONYMS.get(base, ())}
+    return out
+
+
+def _shortens(short: str, word: str) -> bool:
+    """Whether `short` is `word` shortened: its first letter, then some of the others in order
+    (qty, stn, wt). At least two letters, and shorter than the word."""
+    if not 2 <= len(short) < len(word) or short[0] != word[0]:
+        return False
+    rest = iter(word[1:])
+    return all(letter in rest for letter in short[1:])
+
+
+def _joins(short: str, first, second) -> bool:
+    """A header word run together from two question words: unitpr for "unit price"."""
+    return any(short[:k] in (first.text, first.stem) or _shortens(short[:k], first.text)
+               for k in range(2, len(short) - 1)
+               if any(_shortens(short[k:], w) or short[k:] == w
+                      for w in (second.text, second.stem)))
 
 
 def _degree_base(word: str) -> str | None:
@@ -327,10 +378,10 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline
             span_tokens = tokens[i:j]
             if not any(k in content for k in range(i, j)) and j - i == 1 and tokens[i].stop:
                 continue
-            if not any(t.text[0].isalnum() for t in span_tokens):
+            if not any(is_word(t.text) for t in span_tokens):
                 continue
             phrase = " ".join(t.text for t in span_tokens)
-            stems = " ".join(t.stem for t in span_tokens if t.text[0].isalnum())
+            stems = " ".join(t.stem for t in span_tokens if is_word(t.text))
             hits = index["exact"].get(phrase) or index["exact"].get(phrase.replace(" - ", "-"))
             for col, value in hits or []:
                 add("ENTITY", (col, value), (i, j), "exact")

@@ -53,6 +53,7 @@ _TOKEN = re.compile(
     r"\d{4}-\d{2}-\d{2}"                 # ISO date
     r"|\d{1,2}/\d{1,2}/\d{2,4}"          # 30/06/2025
     r"|\d+(?:st|nd|rd|th)\b"             # 4th
+    r"|(?<![\w.])[-−–](?:\d{1,3}(?:,\d{3})+|\d+)(?:\.\d+)?(?![\w-])"   # -3, −2.5: signed
     r"|[$€£]?(?:\d{1,3}(?:,\d{3})+|\d+)(?:\.\d+)?%?"   # 7,169  3.5  $40  40%
     r"|[^\W\d_]+(?:['’][^\W\d_]+)?"      # words, with an apostrophe inside
     r"|(?<!\w)'(?:[^']|'(?=\w))*'(?!\w)"  # quoted text; an apostrophe before a letter stays
@@ -61,6 +62,8 @@ _TOKEN = re.compile(
     r"|\S",
     re.UNICODE,
 )
+_SIGNED = re.compile(r"[-−–]\d")
+_NEGATIVE_WORDS = ("minus", "negative")   # "minus 3" is -3
 _QUOTES = {"'": "'", '"': '"', "“": "”", "‘": "’"}
 
 
@@ -120,9 +123,14 @@ def stem(word: str) -> str:
     return _STEMMER.stemWord(word)
 
 
+def is_word(text: str) -> bool:
+    """A token that says something — a word or a number, signed ones too — not punctuation."""
+    return text[0].isalnum() or bool(_SIGNED.match(text))
+
+
 def split_words(text: str) -> list[str]:
     """The word tokens of a header or cell, lower-cased (no quotes, no punctuation)."""
-    return [t for t in _TOKEN.findall(normalise(text)) if t[0].isalnum() or t[0] in "$€£"]
+    return [t for t in _TOKEN.findall(normalise(text)) if is_word(t) or t[0] in "$€£"]
 
 
 _CONTRACTIONS = {"won't": ("will", "n't"), "can't": ("can", "n't"), "cannot": ("can", "n't"),
@@ -158,7 +166,7 @@ def read_question(question: str) -> Words:
             if inner:
                 quoted.append((inner, len(tokens)))
             text = inner or text
-        tokens.append(Token(text, stem(text), len(tokens), text in STOPWORDS or not text[0].isalnum()))
+        tokens.append(Token(text, stem(text), len(tokens), text in STOPWORDS or not is_word(text)))
     dates = _find_dates(tokens)
     in_date = {i for d in dates for i in range(d.start, d.end) if d.day or d.month}
     numbers = [n for n in _find_numbers(tokens) if n.start not in in_date]
@@ -166,10 +174,11 @@ def read_question(question: str) -> Words:
 
 
 def parse_number_token(text: str) -> float | None:
-    """'7,169' → 7169, '$40' → 40, '40%' → 40, '4th' → 4; None for anything else."""
-    m = re.fullmatch(r"[$€£]?(\d[\d,]*(?:\.\d+)?)%?", text)
+    """'7,169' → 7169, '$40' → 40, '40%' → 40, '4th' → 4, '-3' → -3; None for anything else."""
+    m = re.fullmatch(r"([-−–]?)[$€£]?(\d[\d,]*(?:\.\d+)?)%?", text)
     if m:
-        return float(m.group(1).replace(",", ""))
+        value = float(m.group(2).replace(",", ""))
+        return -value if m.group(1) else value
     m = re.fullmatch(r"(\d+)(?:st|nd|rd|th)", text)
     return float(m.group(1)) if m else None
 
@@ -180,6 +189,8 @@ def _find_numbers(tokens: list[Token]) -> list[NumberMention]:
     while i < len(tokens):
         text = tokens[i].text
         value = parse_number_token(text)
+        if value is not None and value < 0 and found and found[-1].end == i:
+            value = -value   # "3 –5": a dash after a number joins a range, it is no sign
         if value is not None:
             ordinal = bool(re.fullmatch(r"\d+(st|nd|rd|th)", text))
             year = bool(re.fullmatch(r"1\d{3}|20\d{2}", text))
@@ -194,7 +205,15 @@ def _find_numbers(tokens: list[Token]) -> list[NumberMention]:
             i = j
         else:
             i += 1
-    return found
+    return [_signed(n, tokens) for n in found]
+
+
+def _signed(number: NumberMention, tokens: list[Token]) -> NumberMention:
+    """"minus 3", "negative four": the word before a number is its sign, and part of it."""
+    at = number.start - 1
+    if at < 0 or tokens[at].text not in _NEGATIVE_WORDS or number.ordinal or number.value < 0:
+        return number
+    return NumberMention(-number.value, at, number.end)
 
 
 def _next(tokens: list[Token], i: int) -> str:
