@@ -17,7 +17,7 @@ from rapidfuzz import fuzz
 
 from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table
-from .prior import CUE_WORDS, ROW_NOUNS, SYNONYMS
+from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS
 from .rules import OPERATORS
 from .text import DateMention, Words, is_word, normalise, read_question, split_words, stem
 
@@ -26,6 +26,9 @@ MAX_NGRAM = 6
 FLOATING_VALUES = 12     # a column with at most this many values offers them without a mention
 UNEXPLAINED_WORDS = 6    # words a floating value may stand on (a long question would multiply them)
 MAX_HEADER = 1000        # characters of a header matched against a question; a longer one is cut
+# The words that ask for a negation, as the prior's cues for "not" spell them.
+NEGATION_PHRASES = tuple(tuple(phrase.split()) for phrase, weight in CUES["not"][1].items()
+                         if weight > 0)
 MAX_CELL = 1000          # characters of a cell matched; no mention names a longer cell whole
 
 
@@ -83,6 +86,7 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content)
     for slot, names in OPERATORS.items():
         atoms[slot] = [Atom(slot, name) for name in names]
+    atoms["NOT"] = _negations(words) or atoms["NOT"]
     qtype = _qtype(words)
     grams = _grams(words) + (f"qtype:{qtype}",)
     return Analysis(words, table, dict(atoms), col_match, frozenset(content), grams,
@@ -160,6 +164,20 @@ def _qtype(words: Words) -> str:
     if first in {"list", "name", "show", "give"}:
         return "list"
     return "other"
+
+
+def _negations(words: Words) -> list[Atom]:
+    """One NOT atom on each negation word of the question ("n't", "not", "except" …), so that
+    a word negates one condition, not every one: a floating NOT, which every negation word
+    pays for, could be applied twice. With no such word a floating one is offered (teaching may
+    find a team's own word for it)."""
+    texts = [t.text for t in words.tokens]
+    found = []
+    for phrase in NEGATION_PHRASES:
+        n = len(phrase)
+        found += [Atom("NOT", "not", (i, i + n), "cue", 0) for i in range(len(texts) - n + 1)
+                  if tuple(texts[i:i + n]) == phrase]
+    return found
 
 
 # ── columns ───────────────────────────────────────────────────────────────────────────────────

@@ -348,7 +348,8 @@ def _build(rule, builder, analysis, scorer, atoms, kids, size, used) -> Item | N
     form = builder(analysis, *_args(rule, atoms, kids))
     if form is None:
         return None
-    step = Step(rule.alias, atoms, tuple(k.columns for k in kids), tuple(k.form for k in kids))
+    step = Step(rule.alias, atoms, tuple(k.columns for k in kids), tuple(k.form for k in kids),
+                tuple(k.used for k in kids))
     filling = scorer.filling(rule, atoms)
     from_kids = _sum_features(analysis, step, CHILD_FEATURES)
     local = (from_kids, *filling.local) if from_kids else filling.local

@@ -37,6 +37,7 @@ class Step:
     atoms: tuple[Atom, ...]
     child_columns: tuple[frozenset[str], ...]
     child_forms: tuple = ()
+    child_used: tuple[frozenset[int], ...] = ()   # question tokens each sub-form stands on
 
 
 def node_feature(fn):
@@ -190,6 +191,17 @@ def repeated_columns(analysis: Analysis, step: Step) -> Features:
         repeats += col in seen
         seen.add(col)
     return {"col:repeated": float(repeats)} if repeats else {}
+
+
+@child_feature
+def negation_scope(analysis: Analysis, step: Step) -> Features:
+    """A negation word negates the condition whose words follow it ("weren't paid by card"),
+    not one said elsewhere ("in 2023, … weren't paid by card"): how far away the words are."""
+    word = next((a.span for a in step.atoms if a.slot == "NOT" and a.span), None)
+    if word is None or not step.child_used:
+        return {}
+    after = [i for i in step.child_used[0] if i >= word[1]]
+    return {"not:gap": float(min(after) - word[1])} if after else {"not:before": 1.0}
 
 
 def _looks_like_id(col, analysis: Analysis) -> bool:

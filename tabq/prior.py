@@ -228,6 +228,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "ent:floating_yes": 0.8, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
     "agg.on_single": -2.0,
+    "not:gap": -0.3, "not:before": -1.0,   # per word between a negation and what it negates
     # after execution: the answer against the question's wh-word
     "den:empty": -3.0, "den:null": -3.0, "den:many": -0.4, "den:huge": -1.5,
     "den:how_many|number": 1.2, "den:how_many|text": -2.5, "den:how_many|date": -2.5,
