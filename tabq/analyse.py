@@ -11,7 +11,7 @@ from __future__ import annotations
 import datetime
 import time
 from collections import Counter, defaultdict
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from rapidfuzz import fuzz
 
@@ -83,7 +83,7 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     col_match, spans = _column_mentions(words, table, content, atoms, deadline)
     _value_mentions(words, table, content, col_match, spans, atoms, deadline)
     _number_mentions(words, table, content, spans, atoms)
-    atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content)
+    atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content, words)
     for slot, names in OPERATORS.items():
         atoms[slot] = [Atom(slot, name) for name in names]
     atoms["NOT"] = _negations(words) or atoms["NOT"]
@@ -413,14 +413,18 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline
         atoms[atom.slot].append(atom)
 
 
-def _with_column_words(entities: list[Atom], col_spans, content) -> list[Atom]:
-    """"dream island", "rating of 1": a value beside its column's name is one mention."""
+def _with_column_words(entities: list[Atom], col_spans, content, words: Words) -> list[Atom]:
+    """"dream island", "rating of 1": a value beside its column's name is one mention. Only a
+    function word may come between ("of"): a cue cannot ("readings before 3 April" is no
+    mention of the date 3 April)."""
     merged = []
     for atom in entities:
         if atom.span is None or atom.quality.startswith("floating"):
             continue
         span = col_spans.get(atom.value[0])
-        if span and (0 <= span[0] - atom.span[1] <= 1 or 0 <= atom.span[0] - span[1] <= 1):
+        gap = range(min(span[1], atom.span[1]), max(span[0], atom.span[0])) if span else ()
+        if span and len(gap) <= 1 and all(words.tokens[i].stop for i in gap) and (
+                span[1] <= atom.span[0] or atom.span[1] <= span[0]):
             start, end = min(span[0], atom.span[0]), max(span[1], atom.span[1])
             covers = sum(1 for i in range(start, end) if i in content)
             merged.append(Atom("ENTITY", atom.value, (start, end), atom.quality, covers))
@@ -525,8 +529,11 @@ def _number_mentions(words, table, content, col_spans, atoms):
             if col.kind == "number" and (beside or _has_value(table, col, number.value)):
                 atoms["ENTITY"].append(Atom("ENTITY", (col.name, _num(number.value)), span,
                                             "number", 1))
+    latest = _latest_year(table)
     for date in words.dates:
         span = (date.start, date.end)
+        if date.day and date.month and not date.year and latest:
+            date = replace(date, year=latest)   # "after 12 June": see _latest_year
         if date.day and date.month and date.year:
             atoms["DATE"].append(Atom("DATE", date, span, "date", 1))
             for col in table.columns:
@@ -538,6 +545,17 @@ def _number_mentions(words, table, content, col_spans, atoms):
             atoms["PERIOD"].append(Atom("PERIOD", date, span, "year", 1))
         elif date.month:
             atoms["PERIOD"].append(Atom("PERIOD", date, span, "month", span[1] - span[0]))
+            if date.year or latest:   # "before October 2024" compares with the month's bounds
+                atoms["DATE"].append(Atom("DATE", replace(date, year=date.year or latest),
+                                          span, "month", span[1] - span[0]))
+
+
+def _latest_year(table: Table) -> int | None:
+    """The year a date without one is read in: that of the latest date in the table's date
+    columns (so the one year they all hold, or the latest of several; the paraphrase shows it)."""
+    years = [int(str(col.maximum)[:4]) for col in table.columns
+             if col.kind == "date" and col.maximum is not None and str(col.maximum)[:4].isdigit()]
+    return max(years, default=None)
 
 
 def _num(value: float):

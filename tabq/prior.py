@@ -62,7 +62,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "cmp:gt": (-1.0, {"more than": 2.4, "over": 2.0, "above": 2.2, "greater than": 2.4,
                       "higher than": 2.4, "after": 1.8, "exceeding": 2.2, "exceed": 2.0,
                       "larger than": 2.4, "longer than": 2.4, "heavier than": 2.4,
-                      "bigger than": 2.4, "later than": 2.2, "since": 1.6, "beyond": 1.6,
+                      "bigger than": 2.4, "later than": 2.2, "beyond": 1.6,
                       "older than": 2.0, "greater": 1.0, "more": 0.5, "than": 0.6}),
     "cmp:lt": (-1.0, {"less than": 2.4, "under": 2.0, "below": 2.2, "fewer than": 2.4,
                       "lower than": 2.4, "before": 1.8, "smaller than": 2.4,
@@ -71,7 +71,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                       "than": 0.6, "less": 0.5}),
     "cmp:ge": (-1.5, {"at least": 3.0, "or more": 3.0, "minimum of": 1.5, "no less than": 3.0,
                       "or over": 2.5, "and above": 2.5, "or above": 2.5, "from": 0.6,
-                      "onwards": 2.0, "or later": 2.5}),
+                      "onwards": 2.0, "or later": 2.5, "since": 2.0}),   # since May: from May on
     "cmp:le": (-1.5, {"at most": 3.0, "or less": 3.0, "or fewer": 3.0, "no more than": 3.2,
                       "up to": 2.2, "maximum of": 1.5, "or under": 2.5, "or below": 2.5,
                       "or earlier": 2.5, "until": 1.2}),

@@ -140,6 +140,10 @@ def compare_date(a, col: str, op: str, date) -> L.Rows | None:
     elif date.year and not date.month:   # "after 2019" is after the end of 2019
         value = datetime.date(date.year, 12, 31) if op in ("gt", "le") else datetime.date(
             date.year, 1, 1)
+    elif date.year:   # "after October 2024" is after its last day, "before" before its first
+        value = datetime.date(date.year, date.month, 1)
+        if op in ("gt", "le"):
+            value = (value + datetime.timedelta(days=31)).replace(day=1) - datetime.timedelta(1)
     else:
         return None
     return L.Cmp(col, op, value)
