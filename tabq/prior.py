@@ -173,7 +173,7 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "young": ("age",), "new": ("date", "year"), "recent": ("date", "year"),
     "earli": ("date", "time", "year"), "late": ("date", "time", "year"),
     "fast": ("time", "speed", "durat"), "quick": ("time", "durat"), "slow": ("time", "durat"),
-    "busi": ("count",), "wide": ("width",), "deep": ("depth",), "high": ("height",),
+    "busi": ("count",), "wide": ("width",), "deep": ("depth",),
     "mass": ("weight",), "tall": ("height",), "old": ("age",), "age": ("old",),
     "when": ("date", "year", "time", "day"), "date": ("day", "time"), "year": ("season", "date"),
     "who": ("name", "player", "person", "staff", "custom", "member", "owner", "driver"),
@@ -187,6 +187,10 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "sex": ("gender",),
     "gender": ("sex",), "rank": ("posit", "place"), "place": ("rank", "posit", "locat"),
     "team": ("club",), "club": ("team",), "titl": ("name",), "film": ("titl",),
+    # the extremes a terse header writes as hi/lo/max/min beside a measure (temp_hi, tmax)
+    "peak": ("high", "max", "top"), "high": ("height", "max"), "low": ("min",),
+    "warm": ("temperatur", "high", "max"), "hot": ("temperatur", "high", "max"),
+    "cool": ("temperatur", "low", "min"), "cold": ("temperatur", "low", "min"),
 }
 
 
@@ -211,7 +215,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "ent:floating+col_exact": 0.5,
     "contains:partial": -0.3, "contains:quoted": 1.0,
     "col:exact": 0.6, "col:partial": 0.0, "col:stem": 0.4, "col:fuzzy": -0.2,
-    "col:synonym": 0.2, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
+    "col:synonym": 0.2, "col:abbrev": 0.2, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
     "col:id": -0.6,
     "values.col:none": -0.3, "values.col:exact": 0.6,
     "measure.col:none": -0.9, "key.col:none": -0.9, "order.col:none": -1.2,
