@@ -394,6 +394,9 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline
         _in_time(deadline)
         for j in range(i + 1, min(len(tokens), i + MAX_NGRAM) + 1):
             span_tokens = tokens[i:j]
+            if j - i == 1 and len(tokens[i].text) == 1 and tokens[i].text.isalpha():
+                _letter(index, tokens, i, col_spans, add)
+                continue
             if not any(k in content for k in range(i, j)) and j - i == 1 and tokens[i].stop:
                 continue
             if not any(is_word(t.text) for t in span_tokens):
@@ -411,6 +414,19 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline
     _floating(table, words, found, col_match, col_spans, content, atoms)
     for atom in found.values():
         atoms[atom.slot].append(atom)
+
+
+def _letter(index, tokens, i: int, col_spans, add) -> None:
+    """A one-letter cell value ("size a", "grade of c") is read after its column's name; a letter
+    elsewhere is read only when it is no article ("a size", "how many a…") and no piece of
+    another word ("e-bike", "o'clock")."""
+    beside = {"-", "'", "’", "/", "&", "."}
+    glued = any(0 <= k < len(tokens) and tokens[k].text in beside for k in (i - 1, i + 1))
+    for col, value in index["exact"].get(tokens[i].text, []):
+        span = col_spans.get(col)
+        after = span and 0 <= i - span[1] <= 1 and all(tokens[k].stop for k in range(span[1], i))
+        if after or not (tokens[i].stop or glued):
+            add("ENTITY", (col, value), (i, i + 1), "exact")
 
 
 def _with_column_words(entities: list[Atom], col_spans, content, words: Words) -> list[Atom]:
