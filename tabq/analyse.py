@@ -9,6 +9,7 @@ much each reading should be trusted.
 from __future__ import annotations
 
 import datetime
+import re
 import time
 from collections import Counter, defaultdict
 from dataclasses import dataclass, field, replace
@@ -17,7 +18,7 @@ from rapidfuzz import fuzz
 
 from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table
-from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS
+from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS
 from .rules import OPERATORS
 from .text import DateMention, Words, is_word, normalise, read_question, split_words, stem
 
@@ -88,6 +89,8 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
         atoms[slot] = [Atom(slot, name) for name in names]
     atoms["NOT"] = _negations(words) or atoms["NOT"]
     qtype = _qtype(words)
+    for atom in _wh_columns(words, table, qtype, spans):
+        atoms[atom.slot].append(atom)
     grams = _grams(words) + (f"qtype:{qtype}",)
     return Analysis(words, table, dict(atoms), col_match, frozenset(content), grams,
                     qtype, _head(words, ("how many", "number of")),
@@ -178,6 +181,40 @@ def _negations(words: Words) -> list[Atom]:
         found += [Atom("NOT", "not", (i, i + n), "cue", 0) for i in range(len(texts) - n + 1)
                   if tuple(texts[i:i + n]) == phrase]
     return found
+
+
+def _wh_columns(words: Words, table: Table, qtype: str, spans: dict) -> list[Atom]:
+    """"who …", "where …", "when …" with no column named for the answer: the columns of the
+    kind the word asks for (a person, a place, a date), standing on the wh-word."""
+    kinds = WH_COLUMNS.get(qtype)
+    texts = [t.text for t in words.tokens]
+    if not kinds or qtype not in texts[:4]:
+        return []
+    at = texts.index(qtype)
+    return [Atom(slot, col.name, (at, at + 1), "wh", 0) for col in table.columns
+            if col.name not in spans and _wh_kind(col, qtype, kinds)
+            for slot in set(_slots(col, table)) & {"ANYCOL", "KEYCOL"}]
+
+
+def _wh_kind(col: Column, qtype: str, kinds: frozenset[str]) -> bool:
+    """Whether a column holds what the wh-word asks for: by its header's words, or its kind
+    (a date for "when"), or its values (people's names for "who")."""
+    header = {stem(w) for w in split_words(_header_text(col))}
+    if header & kinds:
+        return True
+    if qtype == "when":
+        return col.kind == "date"
+    return qtype == "who" and not header & WH_COLUMNS["where"] and _names_people(col)
+
+
+_PERSON = re.compile(r"[A-Z][a-z'’.-]+(?: [A-Z][a-z'’.-]+){1,2}")
+
+
+def _names_people(col: Column) -> bool:
+    """Text values that look like people's names: two or three capitalised words, mostly."""
+    sample = [str(v) for v in col.values[:50]]
+    return col.kind == "text" and len(sample) >= 2 and sum(
+        bool(_PERSON.fullmatch(v)) for v in sample) >= 0.8 * len(sample)
 
 
 # ── columns ───────────────────────────────────────────────────────────────────────────────────

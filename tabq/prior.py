@@ -194,6 +194,20 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
 }
 
 
+# Header words that say a column holds what a wh-word asks for: a date, a place, a person.
+# A "who" column may also be told by its values (people's names, see analyse).
+WH_COLUMNS: dict[str, frozenset[str]] = {
+    "when": frozenset("date day time when month week year start end".split()),
+    "where": frozenset("place citi town depot region countri locat site venu station address "
+                       "area branch store shop warehous port counti district destin island "
+                       "where hub ground stadium state".split()),
+    "who": frozenset("person name driver staff agent rep seller by owner custom client employe "
+                     "player mechan manag author observ member user who buyer host winner "
+                     "artist director coach captain teacher student courier cashier oper "
+                     "worker technician assigne writer salesperson".split()),
+}
+
+
 def prior_weights() -> dict[str, float]:
     """Feature weights of the untaught model."""
     weights: dict[str, float] = {}
@@ -233,6 +247,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
     "agg.on_single": -2.0,
     "not:gap": -0.3, "not:before": -1.0,   # per word between a negation and what it negates
+    "col:wh": 0.4, "values.col:wh": 1.0, "key.col:wh": -0.3,   # "who": a person (WH_COLUMNS)
     # after execution: the answer against the question's wh-word
     "den:empty": -3.0, "den:null": -3.0, "den:many": -0.4, "den:huge": -1.5,
     "den:how_many|number": 1.2, "den:how_many|text": -2.5, "den:how_many|date": -2.5,
