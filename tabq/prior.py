@@ -196,16 +196,18 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
 
 # Header words that say a column holds what a wh-word asks for: a date, a place, a person.
 # A "who" column may also be told by its values (people's names, see analyse).
-WH_COLUMNS: dict[str, frozenset[str]] = {
-    "when": frozenset("date day time when month week year start end".split()),
-    "where": frozenset("place citi town depot region countri locat site venu station address "
-                       "area branch store shop warehous port counti district destin island "
-                       "where hub ground stadium state".split()),
-    "who": frozenset("person name driver staff agent rep seller by owner custom client employe "
-                     "player mechan manag author observ member user who buyer host winner "
-                     "artist director coach captain teacher student courier cashier oper "
-                     "worker technician assigne writer salesperson".split()),
+_WH_WORDS = {
+    "when": "date day time when month week year start end",
+    "where": "place city town depot region country location site venue station address area "
+             "branch store shop warehouse port county district destination island where hub "
+             "ground stadium state",
+    "who": "person name driver staff agent rep seller by owner customer client employee player "
+           "mechanic manager author observer member user who buyer host winner artist director "
+           "coach captain teacher student courier cashier operator worker technician assignee "
+           "writer salesperson",
 }
+WH_COLUMNS: dict[str, frozenset[str]] = {
+    wh: frozenset(stem(w) for w in words.split()) for wh, words in _WH_WORDS.items()}
 
 
 def prior_weights() -> dict[str, float]:
