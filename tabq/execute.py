@@ -38,7 +38,7 @@ def run(table: Table, form: L.Answer, seconds: float = QUERY_SECONDS) -> Denotat
     sql = render(form)
     cache = _answers(table)
     if sql not in cache:
-        cache[sql] = _execute(table, _limited(sql), seconds, isinstance(form, L.GroupTable))
+        cache[sql] = _execute(table, _limited(sql), seconds, form.tabular)
     return cache[sql]
 
 
@@ -228,7 +228,7 @@ def run_on_rows(table: Table, form: L.Answer, rows: tuple[int, ...],
     sql = on_rows(form, rows)
     cache = _answers(table)
     if sql not in cache:
-        cache[sql] = _execute(table, sql, seconds, isinstance(form, L.GroupTable))
+        cache[sql] = _execute(table, sql, seconds, form.tabular)
     return cache[sql]
 
 

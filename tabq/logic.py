@@ -21,7 +21,8 @@ from .errors import TabqError
 Literal = Union[str, float, int, datetime.date, None]
 
 # Fields that hold names (columns, operators) rather than values; printed bare, not quoted.
-SYMBOLS = frozenset({"col", "op", "fn", "key", "measure", "by", "direction", "which", "step"})
+SYMBOLS = frozenset({"col", "op", "fn", "key", "measure", "by", "direction", "which", "step",
+                     "unit"})
 
 
 class Form:
@@ -42,6 +43,8 @@ class Rows(Form):
 
 class Answer(Form):
     """Something computed from rows: the answer to a question."""
+
+    tabular = False     # answers with a table (rows of a key and a measure), not a list
 
 
 # ── row sets ──────────────────────────────────────────────────────────────────────────────────
@@ -140,6 +143,30 @@ class Neighbour(Rows):
     rows: Rows
     step: str
     tag = "neighbour"
+
+
+@dataclass(frozen=True)
+class InGroups(Rows):
+    """The rows of the groups of `key` whose fn(measure) over their rows in `rows` compares
+    (`op`) with `value`: HAVING. A group with no row in `rows` counts 0 rows."""
+
+    key: str
+    fn: str
+    measure: str | None
+    rows: Rows
+    op: str
+    value: Literal
+    tag = "in_groups"
+
+
+@dataclass(frozen=True)
+class CmpAgg(Rows):
+    """The rows whose `col` compares (`op`) with fn(col) over the whole table: above average."""
+
+    col: str
+    op: str
+    fn: str             # avg or median
+    tag = "cmp_agg"
 
 
 # ── answers ───────────────────────────────────────────────────────────────────────────────────
@@ -243,13 +270,39 @@ class GroupTable(Answer):
     measure: str | None
     rows: Rows
     tag = "per_group"
+    tabular = True
+
+
+@dataclass(frozen=True)
+class Share(Answer):
+    """The share of the rows of `within` that are in `rows` (a row whose condition is unknown
+    is not): 0 to 1 for unit "fraction", 0 to 100 for "percent"."""
+
+    unit: str
+    rows: Rows
+    within: Rows
+    tag = "share"
+
+
+@dataclass(frozen=True)
+class PeriodTable(Answer):
+    """fn(measure) for every month (as year-month: months of different years stay apart) or
+    year of the date column `col`, in time order: a table for analysts."""
+
+    col: str
+    unit: str           # month or year
+    fn: str
+    measure: str | None
+    rows: Rows
+    tag = "per_period"
+    tabular = True
 
 
 FORMS: dict[str, type] = {
     cls.tag: cls
     for cls in (All, Eq, Cmp, Between, Contains, Missing, Period, And, Or, Not, Extreme,
-                Position, Neighbour, Values, Distinct, Aggregate, Difference, WhichOf,
-                GroupBest, GroupTop, TopN, YesNo, GroupTable)
+                Position, Neighbour, InGroups, CmpAgg, Values, Distinct, Aggregate, Difference,
+                WhichOf, GroupBest, GroupTop, TopN, YesNo, GroupTable, Share, PeriodTable)
 }
 
 
@@ -347,6 +400,7 @@ def size(form: Form) -> int:
 
 # ── English reading ───────────────────────────────────────────────────────────────────────────
 OPS = {"gt": "is more than", "lt": "is less than", "ge": "is at least", "le": "is at most"}
+COUNT_OPS = {"gt": "more than", "lt": "fewer than", "ge": "at least", "le": "at most"}
 FN_WORDS = {"count": "the number of rows", "count_distinct": "the number of different",
             "sum": "the total", "avg": "the average", "min": "the lowest", "max": "the highest",
             "median": "the median"}
@@ -405,6 +459,23 @@ class _Reader:
                                     str(r.year) if r.year else "") if x)
         return f"{self.label(r.col)} is in {when}"
 
+    def c_in_groups(self, r: InGroups) -> str:
+        return f"{self.label(r.key)} {self.having(r, 'has')}"
+
+    def having(self, r: InGroups, verb: str) -> str:
+        """"has more than 7 rows where …", "has an average amount over rows where … that is
+        more than 600"."""
+        if r.fn == "count":
+            return f"{verb} {COUNT_OPS[r.op]} {self.value(r.value)} rows{self.where(r.rows)}"
+        measure = self.agg(r.fn, r.measure).removeprefix("the ")
+        scope = "" if isinstance(r.rows, All) else f" over rows where {self.cond(r.rows)}"
+        article = "an" if measure[0] in "aeiou" else "a"
+        return f"{verb} {article} {measure}{scope} that {OPS[r.op]} {self.value(r.value)}"
+
+    def c_cmp_agg(self, r: CmpAgg) -> str:
+        return (f"{self.label(r.col)} {OPS[r.op]} {FN_WORDS[r.fn]} {self.label(r.col)} "
+                f"of the whole table")
+
     def c_and(self, r: And) -> str:
         return f"{self.cond(r.left)} and {self.cond(r.right)}"
 
@@ -432,9 +503,13 @@ class _Reader:
         return f"the {self.label(f.col)}{self.where(f.rows)}"
 
     def distinct(self, f: Distinct) -> str:
+        if isinstance(f.rows, InGroups) and f.rows.key == f.col:
+            return f"the {self.label(f.col)} values that {self.having(f.rows, 'have')}"
         return f"the different values of {self.label(f.col)}{self.where(f.rows)}"
 
     def aggregate(self, f: Aggregate) -> str:
+        if f.fn == "count_distinct" and isinstance(f.rows, InGroups) and f.rows.key == f.col:
+            return f"the number of {self.label(f.col)} values that {self.having(f.rows, 'have')}"
         return self.agg(f.fn, f.col) + self.where(f.rows)
 
     def agg(self, fn: str, col: str | None) -> str:
@@ -469,6 +544,17 @@ class _Reader:
 
     def yes_no(self, f: YesNo) -> str:
         return f"whether there is any row where {self.cond(f.rows)}"
+
+    def share(self, f: Share) -> str:
+        name = "percentage (0 to 100)" if f.unit == "percent" else "share (0 to 1)"
+        if isinstance(f.within, All):
+            return f"the {name} of all rows where {self.cond(f.rows)}"
+        return f"among rows where {self.cond(f.within)}, the {name} where {self.cond(f.rows)}"
+
+    def per_period(self, f: PeriodTable) -> str:
+        each = ("each month of {}, as year-month (months of different years kept apart)"
+                if f.unit == "month" else "each year of {}").format(self.label(f.col))
+        return f"{self.agg(f.fn, f.measure)}{self.where(f.rows)}, for {each}"
 
     def per_group(self, f: GroupTable) -> str:
         return (f"{self.agg(f.fn, f.measure)} for each {self.label(f.key)}{self.where(f.rows)}")

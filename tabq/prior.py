@@ -51,6 +51,19 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                       "has": 0.8, "have": 0.6}),
     "per_group": (-3.0, {"per": 2.8, "each": 2.4, "for each": 1.5, "by": 1.4, "breakdown": 2.5,
                          "for every": 2.5, "grouped": 2.5, "split by": 2.0}),
+    # filters on groups, shares and per-period tables (rules.groups_with …, share, per_period)
+    "having": (-1.5, {"have": 2.0, "has": 2.0, "had": 1.5, "with": 1.8, "whose": 2.0}),
+    "share:percent": (-3.0, {"percent": 4.0, "percentage": 4.0, "pct": 3.5, "per cent": 4.0}),
+    "share:fraction": (-3.0, {"share": 4.0, "fraction": 4.0, "proportion": 4.0, "ratio": 3.0}),
+    # no word stands on "above average"'s comparison: only an average word may bring it in
+    "than:avg": (-5.0, {"average": 4.7, "mean": 4.7, "avg": 4.7, "than average": 1.5,
+                        "than the average": 1.5, "than the mean": 1.5}),
+    "than:median": (-5.5, {"median": 5.2}),
+    "per:month": (-1.0, {"month": 2.0, "monthly": 2.0, "by month": 2.5, "per month": 2.5,
+                         "each month": 2.5, "every month": 2.5, "a month": 1.0}),
+    "per:year": (-1.0, {"year": 2.0, "yearly": 2.0, "annual": 1.5, "annually": 2.0,
+                        "by year": 2.5, "per year": 2.5, "each year": 2.5, "every year": 2.5,
+                        "a year": 1.0}),
     "group:sum": (0.0, {"total": 1.5, "sum": 1.5, "most": 0.6, "overall": 0.5}),
     "group:avg": (-1.6, {"average": 3.6, "mean": 3.3, "avg": 3.6, "typical": 1.5, "per": 0.4}),
     "group:max": (-2.2, {"maximum": 1.8, "max": 1.8, "single": 1.5, "highest": 0.6,
@@ -122,6 +135,22 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                       "fastest": 1.2, "youngest": 0.6, "soonest": 1.5}),
 }
 
+# "at least 3" and "at most 3" bound a number: they never ask for the least or the most.
+for _fragment, (_, _cues) in CUES.items():
+    for _bound, _word in (("at least", "least"), ("at most", "most")):
+        if _word in _cues and _bound not in _cues:
+            _cues[_bound] = -_cues[_word]
+
+
+# "heavier than average", "above the mean": the average is what rows are compared with, not a
+# measure asked for (one "average" would otherwise read as both).
+for _fragment in ("avg", "group:avg"):
+    for _side in ("than", "above", "below", "over", "under"):
+        for _the in ("", "the "):
+            for _word in ("average", "mean"):
+                CUES[_fragment][1][f"{_side} {_the}{_word}"] = -2.0
+
+
 def cue_key(phrase: str) -> str:
     """A cue phrase as the question grams spell it: stemmed words, or a "qtype:" tag as is."""
     if phrase.startswith("qtype:"):
@@ -143,6 +172,9 @@ for _key in list(STRONG_CUES):  # max/min words are also explained by superlativ
         STRONG_CUES[_key] |= {"max", "extreme:max", "dir:max"}
     if STRONG_CUES[_key] & {"min", "extreme:min", "dir:min"}:
         STRONG_CUES[_key] |= {"min", "extreme:min", "dir:min"}
+    # an aggregate's words are also explained by it measuring groups ("total" per month)
+    STRONG_CUES[_key] |= {f"group:{fn}" for fn in ("sum", "avg", "min", "max", "median")
+                          if fn in STRONG_CUES[_key]}
 
 # Words that ask for an operation rather than naming a column or value.
 CUE_WORDS = frozenset(
@@ -245,6 +277,8 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "whhead:values": 1.2, "whhead:distinct": 1.2, "whhead:group_best": 1.2,
     "whhead:group_best_count": 1.2, "whhead:group_top": 1.2, "whhead:group_top_count": 1.2,
     "whhead:top_n": 0.8, "whhead:top_values": 0.8,
+    "whhead:groups_with_count": 1.2, "whhead:groups_with": 1.2,
+    "head:count_groups_with_count": 2.5, "head:count_groups_with": 2.5,
     "ent:floating_yes": 0.8, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
     "agg.on_single": -2.0,

@@ -25,12 +25,14 @@ OPERATORS = {
     "COUNT": ("count",), "COUNTD": ("count_distinct",), "DISTINCT": ("distinct",),
     "NOT": ("not",), "OR": ("or",), "MISSING": ("missing",), "PRESENT": ("present",),
     "ALL": ("all",), "YESNO": ("yes_no",), "GROUP": ("group",),
+    "SHARE": ("percent", "fraction"), "UNIT": ("month", "year"),
 }
 # The operator slots whose value is a fragment of meaning, and the fragments it may stand for
 # ("{DIR}" is the atom's value, as in `Spec.fragments`): the chart ranks such an atom by the
 # best of them before any rule applies it.
 OPERATOR_FRAGMENTS = {"AGG": ("{AGG}",), "DIR": ("dir:{DIR}", "extreme:{DIR}"),
-                      "CMP": ("cmp:{CMP}",), "POS": ("{POS}",), "STEP": ("{STEP}",)}
+                      "CMP": ("cmp:{CMP}",), "POS": ("{POS}",), "STEP": ("{STEP}",),
+                      "SHARE": ("share:{SHARE}",), "UNIT": ("per:{UNIT}",)}
 
 Builder = Callable[..., "L.Form | None"]
 
@@ -207,6 +209,15 @@ def neighbour(a, rows: L.Rows, step: str) -> L.Rows | None:
     return L.Neighbour(rows, step)
 
 
+# "above the average price": the column against its own average (or median) over the table.
+# The question must name the column: no word stands on the comparison or the average, so an
+# unnamed column would let any number column be compared, and stacked, for the same words.
+@specify(fragments=("cmp:{CMP}", "than:{AGG}"), role="filter",
+         fits=lambda col, op, fn: fn in ("avg", "median"))
+def compare_average(a, col: str, op: str, fn: str) -> L.Rows | None:
+    return L.CmpAgg(col, op, fn) if fn in ("avg", "median") and col in a.spans else None
+
+
 # ── answers ───────────────────────────────────────────────────────────────────────────────────
 @specify(fragments=("values",), role="values", head=True)
 def values(a, col: str, rows: L.Rows) -> L.Answer | None:
@@ -348,3 +359,105 @@ def per_group(a, key: str, fn: str, col: str, rows: L.Rows, _) -> L.Answer | Non
     if key == col or _filters_on(rows, key):
         return None
     return L.GroupTable(key, fn, col, rows)
+
+
+# Filters on groups (HAVING): "depots with more than 20 late deliveries" lists the groups,
+# "how many depots have …" counts them. The groups are a row set (`InGroups`), so the answer is
+# the distinct values of the key, or their count, over it.
+def _groups(key: str, fn: str, col: str | None, rows: L.Rows, op: str,
+            n: float) -> L.InGroups | None:
+    if key == col or _filters_on(rows, key) or not scoped(rows):
+        return None
+    # The comparison words stand on no span, so one "at least" would read as both comparisons
+    # ("at least 3 products under 10"); the same comparison twice is rarely what was asked.
+    if any(isinstance(node, L.Cmp) and node.op == op for node in L.walk(rows)):
+        return None
+    if fn == "count" and not (float(n).is_integer() and n >= 0):
+        return None
+    return L.InGroups(key, fn, col, rows, op, n)
+
+
+@specify(fragments=("having", "count", "cmp:{CMP}"), role="key", head=True)
+def groups_with_count(a, key: str, _, rows: L.Rows, op: str, n: float) -> L.Answer | None:
+    groups = _groups(key, "count", None, rows, op, n)
+    return groups and L.Distinct(key, groups)
+
+
+@specify(fragments=("having", "group:{AGG}", "cmp:{CMP}"), role="key", head=True)
+def groups_with(a, key: str, fn: str, col: str, rows: L.Rows, op: str,
+                n: float) -> L.Answer | None:
+    groups = _groups(key, fn, col, rows, op, n)
+    return groups and L.Distinct(key, groups)
+
+
+@specify(fragments=("count_distinct", "having", "count", "cmp:{CMP}"), role="key", head=True,
+         aggregating=True)
+def count_groups_with_count(a, _, key: str, __, rows: L.Rows, op: str,
+                            n: float) -> L.Answer | None:
+    groups = _groups(key, "count", None, rows, op, n)
+    return groups and L.Aggregate("count_distinct", key, groups)
+
+
+@specify(fragments=("count_distinct", "having", "group:{AGG}", "cmp:{CMP}"), role="key",
+         head=True, aggregating=True)
+def count_groups_with(a, _, key: str, fn: str, col: str, rows: L.Rows, op: str,
+                      n: float) -> L.Answer | None:
+    groups = _groups(key, fn, col, rows, op, n)
+    return groups and L.Aggregate("count_distinct", key, groups)
+
+
+# Shares: "what share of orders were returned" (of all rows), "what fraction of Tuesday orders
+# were paid by card" (of the rows of another condition). The unit is the SHARE atom's: percent
+# (0 to 100) or fraction (0 to 1).
+def _a_condition(rows: L.Form) -> bool:
+    return scoped(rows) and not isinstance(rows, L.All)
+
+
+@specify(fragments=("share:{SHARE}",), accepts=_a_condition)
+def share(a, unit: str, rows: L.Rows) -> L.Answer | None:
+    return L.Share(unit, rows, L.All())
+
+
+@specify(fragments=("share:{SHARE}",), accepts=_a_condition)
+def share_within(a, unit: str, whole: L.Rows, part: L.Rows) -> L.Answer | None:
+    if whole == part or (isinstance(whole, L.Eq) and isinstance(part, L.Eq)
+                         and whole.col == part.col):
+        return None                   # the same rows, or none of them
+    said = _said_at(a, whole), _said_at(a, part)
+    if None not in said and said[1] < said[0]:
+        return None                   # "share of Tuesday orders paid by card": the whole first
+    return L.Share(unit, part, whole)
+
+
+def _said_at(a, rows: L.Rows) -> int | None:
+    """Where the question first names one of a row set's conditions (its value, number or
+    period, else its column), or None when no word of it is found."""
+    found = []
+    for node in L.walk(rows):
+        if isinstance(node, (L.Eq, L.Contains)):
+            slot = "ENTITY" if isinstance(node, L.Eq) else "CONTAINS"
+            found += [atom.span[0] for atom in a.atoms.get(slot, ())
+                      if atom.span and atom.value == (node.col, node.value)]
+        elif isinstance(node, (L.Cmp, L.Between)):
+            values = {getattr(node, f, None) for f in ("value", "low", "high")}
+            found += [atom.span[0] for atom in a.atoms.get("NUMBER", ()) if atom.value in values]
+        elif isinstance(node, L.Period):
+            found += [atom.span[0] for atom in a.atoms.get("PERIOD", ())
+                      if (atom.value.year, atom.value.month) == (node.year, node.month)]
+        if not found and isinstance(getattr(node, "col", None), str) and node.col in a.spans:
+            found.append(a.spans[node.col][0])
+    return min(found) if found else None
+
+
+# Per-month and per-year tables: a month is a year-month, so months of different years are
+# never added together. Like a date filter's, the column may go unnamed: "per month" says it.
+@specify(fragments=("per_group", "per:{UNIT}", "count"), role="datefilter", accepts=scoped)
+def per_period_count(a, col: str, unit: str, _, rows: L.Rows) -> L.Answer | None:
+    return L.PeriodTable(col, unit, "count", None, rows)
+
+
+@specify(fragments=("per_group", "per:{UNIT}", "group:{AGG}"), role="datefilter",
+         accepts=scoped)
+def per_period(a, col: str, unit: str, fn: str, measure: str, rows: L.Rows) -> L.Answer | None:
+    # the measure must be named: the date filter's role spares an unnamed column its cost
+    return L.PeriodTable(col, unit, fn, measure, rows) if measure in a.spans else None

@@ -106,6 +106,20 @@ def _period(rows: L.Period) -> exp.Expression:
     return exp.and_(*parts) if parts else exp.true()
 
 
+def _in_groups(rows: L.InGroups) -> exp.Expression:
+    # The measure over all the key's rows, each aggregate taking only the rows of `rows`, so a
+    # group none of whose rows match still counts 0 ("fewer than 3 late orders").
+    measure = aggregate(rows.fn, rows.measure, _where(rows.rows))
+    having = COMPARISONS[rows.op](this=measure, expression=literal(rows.value))
+    groups = _grouped(rows.key, L.All()).having(having, copy=False)
+    return exp.In(this=column(rows.key), query=_paren(groups))
+
+
+def _cmp_agg(rows: L.CmpAgg) -> exp.Expression:
+    whole = _select(AGGREGATES[rows.fn](this=column(rows.col)))
+    return COMPARISONS[rows.op](this=column(rows.col), expression=_paren(whole))
+
+
 _CONDITIONS = {
     L.All: lambda r: exp.true(),
     L.Eq: lambda r: exp.EQ(this=column(r.col), expression=literal(r.value)),
@@ -123,6 +137,8 @@ _CONDITIONS = {
     L.Extreme: _extreme,
     L.Position: _position,
     L.Neighbour: _neighbour,
+    L.InGroups: _in_groups,
+    L.CmpAgg: _cmp_agg,
 }
 
 
@@ -236,10 +252,31 @@ def _per_group(form: L.GroupTable) -> exp.Select:
     return query.order_by(exp.Ordered(this=measure.copy(), desc=True), copy=False)
 
 
+def _share(form: L.Share) -> exp.Select:
+    # 100.0 or 1.0 first: the division is a float one in every engine (SQLite's is not)
+    scale = exp.Literal.number("100.0" if form.unit == "percent" else "1.0")
+    part = exp.Mul(this=scale, expression=aggregate("count", None, condition(form.rows)))
+    rows = exp.Nullif(this=exp.Count(this=exp.Star()), expression=exp.Literal.number(0))
+    return _select(exp.Div(this=part, expression=rows), where=_where(form.within))
+
+
+def _period_key(form: L.PeriodTable) -> exp.Expression:
+    if form.unit == "year":
+        return exp.Year(this=column(form.col))
+    return exp.TimeToStr(this=column(form.col), format=exp.Literal.string("%Y-%m"))
+
+
+def _per_period(form: L.PeriodTable) -> exp.Select:
+    key = _period_key(form)
+    query = _select(key, aggregate(form.fn, form.measure), where=_not_null(form.col, form.rows))
+    return query.group_by(key.copy(), copy=False).order_by(key.copy(), copy=False)
+
+
 _QUERIES = {
     L.Values: _values, L.Distinct: _distinct, L.Aggregate: _aggregate,
     L.Difference: _difference, L.WhichOf: _which_of, L.GroupBest: _group_best,
     L.GroupTop: _group_top, L.TopN: _top_n, L.YesNo: _yes_no, L.GroupTable: _per_group,
+    L.Share: _share, L.PeriodTable: _per_period,
 }
 
 

@@ -44,6 +44,13 @@ SAMPLES = [
     L.TopN("rider", 3, FENWICK, "fare", "max"),
     L.YesNo(L.And(FENWICK, L.Cmp("order", "gt", 4))),
     L.GroupTable("route", "avg", "fare", L.Not(CHEAP)),
+    L.Distinct("route", L.InGroups("route", "count", None, CHEAP, "gt", 3)),
+    L.Aggregate("count_distinct", "rider", L.InGroups("rider", "avg", "fare", L.All(), "ge", 9.5)),
+    L.Values("rider", L.And(FENWICK, L.CmpAgg("fare", "lt", "avg"))),
+    L.Share("percent", CHEAP, L.All()),
+    L.Share("fraction", CHEAP, FENWICK),
+    L.PeriodTable("sailed_on", "month", "count", None, L.All()),
+    L.PeriodTable("sailed_on", "year", "sum", "fare", FENWICK),
 ]
 
 
@@ -170,3 +177,32 @@ def test_paraphrase_says_which_direction():
     most = L.paraphrase(L.GroupBest("route", "count", None, L.All(), "max"))
     least = L.paraphrase(L.GroupBest("route", "count", None, L.All(), "min"))
     assert "largest" in most and "smallest" in least
+
+
+def test_paraphrase_of_groups_names_the_groups_and_their_filter():
+    listed = L.Distinct("route", L.InGroups("route", "count", None, CHEAP, "gt", 3))
+    assert L.paraphrase(listed) == (
+        "the route values that have more than 3 rows where fare is less than 10")
+    counted = L.Aggregate("count_distinct", "rider",
+                          L.InGroups("rider", "avg", "fare", L.All(), "ge", 9.5))
+    assert L.paraphrase(counted) == (
+        "the number of rider values that have an average fare that is at least 9.5")
+
+
+def test_paraphrase_of_an_average_comparison_says_over_the_whole_table():
+    text = L.paraphrase(L.Aggregate("count", None, L.CmpAgg("fare", "gt", "avg")))
+    assert text == "the number of rows where fare is more than the average fare of the whole table"
+
+
+def test_paraphrase_of_a_share_says_its_scale():
+    assert L.paraphrase(L.Share("percent", CHEAP, L.All())) == (
+        "the percentage (0 to 100) of all rows where fare is less than 10")
+    assert L.paraphrase(L.Share("fraction", CHEAP, FENWICK)) == (
+        'among rows where route is "Fenwick Loop", the share (0 to 1) where fare is less than 10')
+
+
+def test_paraphrase_of_a_month_table_says_years_stay_apart():
+    text = L.paraphrase(L.PeriodTable("sailed_on", "month", "sum", "fare", L.Period(
+        "sailed_on", 2025, None)))
+    assert text == ("the total fare where sailed_on is in 2025, for each month of sailed_on, "
+                    "as year-month (months of different years kept apart)")
