@@ -121,6 +121,8 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "cover", atom.covers)
             if atom.span and atom.span[0] == analysis.head and spec.head:
                 _add(feats, f"head:{step.rule}")
+                if col.kind == "number":    # "how many goals": a quantity, not its values
+                    _add(feats, f"head:{step.rule}|number")
             if atom.span and atom.span[0] == analysis.wh_head and spec.head:
                 _add(feats, f"whhead:{step.rule}")
     return feats
@@ -239,7 +241,24 @@ def unexplained(analysis: Analysis, used: frozenset[int], frags: frozenset[str])
             seen.add(atom.span)
             if not set(range(*atom.span)) & used:
                 _add(feats, "ent:unused")
+    measure = _asked_measure(analysis)
+    if measure and not set(range(*measure)) & used:
+        _add(feats, "head:unused_measure")
+    if measure and "count" in frags:
+        _add(feats, "head:counted_measure")
     return feats
+
+
+def _asked_measure(analysis: Analysis) -> tuple[int, int] | None:
+    """The span of a number column that "how many" or "how much" asks for ("how many goals did
+    Ada score" with a goals column): counting rows leaves it unanswered."""
+    if analysis.qtype not in ("how_many", "how_much"):
+        return None
+    for name, span in analysis.spans.items():
+        if span[0] == analysis.head and analysis.col_match.get(name) in ("exact", "stem") \
+                and analysis.table.column(name).kind == "number":
+            return span
+    return None
 
 
 # ── answers ───────────────────────────────────────────────────────────────────────────────────
@@ -255,7 +274,8 @@ def answer_shape(analysis: Analysis, den: Denotation) -> Features:
     feats: Features = {f"den:{q}|{den.kind}": 1.0}
     if len(den.values) > 1:
         feats["den:many"] = 1.0
-        feats[f"den:{q}|many"] = 1.0
+        if not den.is_table:    # a table answers "how many … per month" with many numbers
+            feats[f"den:{q}|many"] = 1.0
         if len(den.values) > 20:
             feats["den:huge"] = 1.0
     if den.is_table:

@@ -270,6 +270,11 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "measure.col:exact": 0.6, "key.col:exact": 0.3,
     "filter.col:none": -0.4, "filter.col:exact": 0.3,
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
+    "head:unused_measure": -1.0,     # "how many goals" (a goals column) not answered from it
+    "head:counted_measure": -4.0,    # … but by counting rows
+    # … or by counting its different values, or grouping by them
+    **{f"head:{rule}|number": -2.5 for rule in (
+        "count_distinct", "group_best_count", "group_best", "group_top_count", "group_top")},
     "cmp:date_year": -0.2, "cmp:out_of_range": -1.0, "num:as_entity": 0.3,
     "size": -0.25, "rows:all": 0.0, "rows:nested": -0.4,
     "super:nested": -3.0, "cue:unexplained": -1.2, "den:repeats": -1.5,
@@ -282,8 +287,8 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "ent:floating_yes": 0.8, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
     "agg.on_single": -2.0,
-    "not:gap": -0.3, "not:before": -1.0,   # per word between a negation and what it negates
     "col:wh": 0.4, "values.col:wh": 1.0, "key.col:wh": -0.3,   # "who": a person (WH_COLUMNS)
+    "not:gap": -0.3, "not:before": -1.0,   # per word between a negation and what it negates
     # after execution: the answer against the question's wh-word
     "den:empty": -3.0, "den:null": -3.0, "den:many": -0.4, "den:huge": -1.5,
     "den:how_many|number": 1.2, "den:how_many|text": -2.5, "den:how_many|date": -2.5,
@@ -296,5 +301,6 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "den:how_many|yesno": -3.0, "den:which|yesno": -3.0, "den:what|yesno": -3.0,
     "den:who|yesno": -3.0, "den:when|yesno": -3.0,
     "den:repeats_number": -1.5, "den:table": -0.5, "den:list|many": 0.6,
+    "den:how_many|many": -2.0, "den:how_much|many": -2.0,   # one quantity asked, a list given
     "den:singular|many": -0.6,
 }
