@@ -16,15 +16,17 @@ DELIMITERS = {",": "comma", ";": "semicolon", "\t": "tab", "|": "bar", " ": "spa
 
 
 def as_json(result: Result, top: int) -> dict:
-    """The question, its `top` distinct answers with their SQL, whether tabq is unsure, and
-    how the table was read."""
+    """The question, its `top` distinct answers with their SQL (in order of probability), how
+    sure tabq is and why not, and how the table was read."""
     return {"question": result.question,
             "answers": [{"answer": [list(v) if isinstance(v, tuple) else v for v in r.answer],
                          "sql": r.sql, "paraphrase": r.paraphrase,
                          "score": round(r.score, 4), "probability": round(r.probability, 4),
                          **({"error": r.error} if r.error else {})}
                         for r in result.readings[:top]],
-            "unsure": result.unsure, "notes": result.notes, "read": read_json(result.table)}
+            "confidence": round(result.confidence, 4), "unsure": result.unsure,
+            "unsure_reason": result.unsure_reason, "notes": result.notes,
+            "read": read_json(result.table)}
 
 
 def read_json(table: Table | None) -> dict | None:
@@ -116,8 +118,8 @@ def format_result(result: Result, top: int = 3) -> str:
     lines = [f"Answer:   {format_answer(best)}"] + ([read] if read else [])
     lines += [f"Reading:  {best.paraphrase}",
               f"SQL:      {best.sql}",
-              f"Sureness: {sure}" + ("  — unsure: check the SQL and the other readings"
-                                     if result.unsure else "")]
+              f"Sureness: {sure}" + (f"  — unsure: {result.unsure_reason}. Check the SQL "
+                                     "and the other readings" if result.unsure else "")]
     lines += [f"Note:     {note}" for note in result.notes]
     others = result.readings[1:top]
     if others:

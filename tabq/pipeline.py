@@ -7,6 +7,7 @@ import math
 import time
 from dataclasses import dataclass, field
 
+from . import calibration
 from . import logic as L
 from .analyse import Analysis, OutOfTime, analyse
 from .answers import Denotation
@@ -19,11 +20,11 @@ from .model import Model
 from .sql import render
 
 EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
-UNSURE = 0.5            # below this share of probability the top answer is flagged
 QUESTION_SECONDS = 20.0  # one whole question, analysis included; past it, the best so far, flagged
 BATCH = 20              # candidates executed between two checks of whether the rest can matter
 SETTLED = 3             # distinct readings that must come out exactly as if all were executed
 MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
+MAX_WORDS = 3           # question words no reading uses, named in the unsure reason
 MAX_LABEL = 80          # characters of a header shown in a reading (a header can be a whole cell)
 
 
@@ -41,6 +42,7 @@ class Reading:
     probability: float = 0.0
     is_table: bool = False
     key: tuple = field(default=(), repr=False, compare=False)   # which answer it is
+    unused: tuple[str, ...] = ()     # content words of the question the reading does not use
 
 
 @dataclass
@@ -78,8 +80,13 @@ class Result:
         return self.best.probability if self.best else 0.0
 
     @property
+    def unsure_reason(self) -> str | None:
+        """Why the top answer needs checking, in words; None when tabq is sure of it."""
+        return unsure_reason(self)
+
+    @property
     def unsure(self) -> bool:
-        return self.confidence < UNSURE or not self.complete
+        return self.unsure_reason is not None
 
 
 class OpenTable:
@@ -150,15 +157,42 @@ class OpenTable:
             for name, value in fn(analysis, den).items():
                 feats[name] = feats.get(name, 0.0) + value
         score = self.model.score(feats)
+        unused = tuple(analysis.words.tokens[i].text for i in sorted(analysis.content - item.used))
         return Reading(item.form, render(item.form), self._paraphrase(item.form),
                        list(den.values), score, feats, den.error, is_table=den.is_table,
-                       key=_key(self.table, den))
+                       key=_key(self.table, den), unused=unused)
 
     def _paraphrase(self, form: L.Answer) -> str:
         cache = self.table.cache.setdefault("paraphrases", {})
         if form not in cache:
             cache[form] = L.paraphrase(form, self.label)
         return cache[form]
+
+
+def unsure_reason(result: Result) -> str | None:
+    """The reason to doubt the top answer, or None. Only the time limit and the probability
+    flag it: benchmarks/calibrate.py measured the other signals (words no reading uses, a close
+    runner-up, unexplained cue words) and none flagged fewer answers at the same precision, so
+    they only say more about a low probability."""
+    if result.best is None:
+        return "no reading fits"
+    if not result.complete:
+        return "the search stopped at its time limit"
+    if result.confidence >= calibration.SURE_AT:
+        return None
+    why = f"low probability ({result.confidence:.0%}"
+    if len(result.readings) > 1:
+        why += f", the runner-up {result.readings[1].probability:.0%}"
+    words = never_used(result.candidates)[:MAX_WORDS]
+    return why + ")" + (f"; no reading uses {', '.join(map(repr, words))}" if words else "")
+
+
+def never_used(candidates: list[Reading]) -> tuple[str, ...]:
+    """Content words of the question that no executed reading uses: words tabq cannot read."""
+    if not candidates:
+        return ()
+    common = set(candidates[0].unused).intersection(*(c.unused for c in candidates[1:]))
+    return tuple(w for w in candidates[0].unused if w in common)
 
 
 def _too_slow(seconds: float, doing: str) -> QueryError:
@@ -178,34 +212,54 @@ def _key(table: Table, den: Denotation) -> tuple:
     return cache[id(den)][1]
 
 
+def answer_key(reading: Reading) -> tuple:
+    """Which answer a reading gives; each failed query is an answer of its own."""
+    return reading.key if not reading.error else ("error", reading.sql)
+
+
 def _can_skip(done: list[Reading], rest: list[Item], bound: float) -> bool:
     """Whether no candidate in `rest` can matter, whatever its answer: each one's score is at
-    most its answer-free score plus `bound`."""
-    if not done or not rest:
-        return not rest
-    readings = sorted({r.key if not r.error else ("error", r.sql): r.score for r in sorted(
-        done, key=lambda r: r.score)}.values(), reverse=True)
+    most its answer-free score plus `bound`. An answer's score is its best reading's, so a
+    skipped candidate can at most add an answer of that score or raise one to it."""
+    if not done or not rest or calibration.AGREEMENT:
+        return not rest     # with a bonus for agreeing readings the bound below does not hold
+    best: dict[tuple, float] = {}
+    for r in done:
+        best[answer_key(r)] = max(r.score, best.get(answer_key(r), -math.inf))
+    readings = sorted(best.values(), reverse=True)
     best_rest = max(i.score for i in rest) + bound + 1e-9
     if len(readings) < SETTLED or best_rest >= readings[SETTLED - 1]:
         return False
-    top = readings[0]
-    held = sum(math.exp(r.score - top) for r in done)
-    skipped = sum(math.exp(i.score + bound - top) for i in rest)
+    top, t = readings[0], calibration.TEMPERATURE
+    held = sum(math.exp((s - top) / t) for s in readings)
+    skipped = sum(math.exp((i.score + bound - top) / t) for i in rest)
     return skipped <= MASS_TOLERANCE * held
 
 
+def answer_score(scores: list[float], agreement: float = calibration.AGREEMENT) -> float:
+    """One score for an answer from the scores of the readings that give it: the best one's,
+    plus `agreement` times what log-sum-exp adds for the others (0: the best alone)."""
+    top = max(scores)
+    return top + agreement * math.log(sum(math.exp(s - top) for s in scores))
+
+
+def probabilities(scores: list[float],
+                  temperature: float = calibration.TEMPERATURE) -> list[float]:
+    """A softmax over answer scores: so the higher score always shows the higher probability."""
+    top = max(scores)
+    weights = [math.exp((s - top) / temperature) for s in scores]
+    total = sum(weights)
+    return [w / total for w in weights]
+
+
 def _distinct_answers(candidates: list[Reading]) -> list[Reading]:
-    """The best reading of each distinct answer, with the probability of that answer."""
-    if not candidates:
-        return []
-    top = max(c.score for c in candidates)
-    mass: dict[tuple, float] = {}
-    best: dict[tuple, Reading] = {}
-    for c in candidates:
-        key = c.key if not c.error else ("error", c.sql)
-        mass[key] = mass.get(key, 0.0) + math.exp(c.score - top)
-        best.setdefault(key, c)
-    total = sum(mass.values())
-    for key, reading in best.items():
-        reading.probability = mass[key] / total
-    return sorted(best.values(), key=lambda r: -r.score)
+    """The best reading of each distinct answer, ranked by the answer's score, with the
+    answer's probability: the list is in order of probability too."""
+    groups: dict[tuple, list[Reading]] = {}
+    for c in sorted(candidates, key=lambda r: -r.score):
+        groups.setdefault(answer_key(c), []).append(c)
+    scored = [(answer_score([r.score for r in g]), g[0]) for g in groups.values()]
+    scored.sort(key=lambda pair: -pair[0])          # stable: ties keep the best reading first
+    for (_, reading), p in zip(scored, probabilities([s for s, _ in scored])):
+        reading.probability = p
+    return [reading for _, reading in scored]

@@ -215,12 +215,11 @@ class TabqApp(App):
         self.alikes = [self.session.look_alikes(result, r) for r in result.readings]
         answers = self._q(AnswerList)
         answers.show(result, [len(a) for a in self.alikes])
-        self._q(ReadingPanel).show(result.best, len(self.alikes[0]) if result.best
-                                          else 1)
+        self._show_reading(0)
         if not result.best:
             self.say("No reading of this question fits the table.", "warn")
         else:
-            sure = ("unsure: check the readings" if result.unsure
+            sure = (f"unsure: {result.unsure_reason}; check the readings" if result.unsure
                     else f"{result.confidence:.0%} of the model's belief")
             listed = min(len(result.readings), SHOWN)
             self.say((note + "  " if note else "") + f"{len(result.readings)} distinct answers, "
@@ -232,8 +231,18 @@ class TabqApp(App):
 
     def on_option_list_option_highlighted(self, event: AnswerList.OptionHighlighted) -> None:
         if self.screen_stack and self.result and event.option_index < len(self.result.readings):
-            self._q(ReadingPanel).show(self.result.readings[event.option_index],
-                                              len(self.alikes[event.option_index]))
+            self._show_reading(event.option_index)
+
+    def _show_reading(self, index: int) -> None:
+        """The reading panel for answer `index` of the result; the top one says how sure."""
+        result = self.result
+        if not result.readings:
+            self._q(ReadingPanel).show(None)
+            return
+        top = index == 0
+        self._q(ReadingPanel).show(result.readings[index], len(self.alikes[index]),
+                                   top and not result.unsure,
+                                   result.unsure_reason if top else None)
 
     # ── teaching ───────────────────────────────────────────────────────────────────────────
     def on_answer_list_chosen(self, event: AnswerList.Chosen) -> None:

@@ -62,10 +62,11 @@ def read_text(table: Table) -> Text:
     return text
 
 
-def meter(probability: float) -> Text:
-    """A confidence hint: filled dots for the share of the model's belief."""
+def meter(probability: float, sure: bool = False) -> Text:
+    """A confidence hint: filled dots for the answer's probability, green only for a top answer
+    tabq is sure of (a runner-up is never the answer to act on)."""
     filled = round(probability * METER)
-    colour = "#7fc97f" if probability >= pipeline.UNSURE else "#c9a25a"
+    colour = "#7fc97f" if sure else "#c9a25a"
     return Text("●" * filled, style=colour) + Text("○" * (METER - filled), style="#5b6470") + \
         Text(f" {probability:4.0%}", style=colour)
 
@@ -104,11 +105,12 @@ class AnswerList(OptionList):
             self.action, self.index = action, index
 
     def show(self, result: pipeline.Result, alikes: list[int]) -> None:
-        """Fill the list; `alikes[i]` is how many readings give answer i."""
+        """Fill the list, in order of probability; `alikes[i]` is how many readings give
+        answer i."""
         self.clear_options()
         for i, reading in enumerate(result.readings[:SHOWN]):
             line = Text(f"{i + 1:>2} ", style="#5b6470") + answer_text(reading, 4)
-            hint = Text("\n   ") + meter(reading.probability)
+            hint = Text("\n   ") + meter(reading.probability, i == 0 and not result.unsure)
             if alikes[i] > 1:
                 hint += Text(f"  {alikes[i]} readings", style="#c39bd3")
             self.add_option(Option(line + hint, id=str(i)))
@@ -137,14 +139,19 @@ class ReadingPanel(VerticalScroll):
     def compose(self) -> ComposeResult:
         yield Static(id="reading-text")
 
-    def show(self, reading: pipeline.Reading | None, alikes: int = 1) -> None:
+    def show(self, reading: pipeline.Reading | None, alikes: int = 1,
+             sure: bool = False, doubt: str | None = None) -> None:
+        """`sure`: the top answer of a sure result; `doubt`: why the top answer is unsure."""
         body = self.query_one("#reading-text", Static)
         if reading is None:
             body.update(Text("Ask a question about the table above.", style="#8a94a0"))
             return
         parts: list = [Text("reads as ", style="#8a94a0") + Text(reading.paraphrase,
                                                                   style="bold"),
-                       Text(""), answer_text(reading, 20), meter(reading.probability), Text("")]
+                       Text(""), answer_text(reading, 20), meter(reading.probability, sure)]
+        if doubt:
+            parts.append(Text(f"unsure: {doubt}", style="#c9a25a"))
+        parts.append(Text(""))
         if alikes > 1:
             parts.append(Text(f"{alikes} readings give this answer but mean different things: "
                               "press d to compare them", style="#c39bd3"))
