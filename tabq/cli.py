@@ -403,6 +403,9 @@ def _eval(args: argparse.Namespace) -> int:
         write_predictions(args.predictions, jobs, result)
     summary = {"examples": result.examples, "accuracy": round(result.accuracy, 4),
                "oracle": round(result.oracle, 4),
+               "sure_accuracy": (round(result.sure_accuracy, 4) if result.sure
+                                 else None),
+               "flagged": round(result.flagged, 4),
                "seconds_per_question": round(result.seconds_per_question, 3),
                "by_kind": {k: {"right": r, "of": n} for k, (r, n) in result.by_kind.items()},
                **({"training": trained} if trained else {})}
@@ -416,6 +419,9 @@ def _eval(args: argparse.Namespace) -> int:
     print(f"accuracy {result.accuracy:.1%} ({round(result.accuracy * result.examples)}/"
           f"{result.examples}); oracle coverage {result.oracle:.1%}; "
           f"{result.seconds_per_question * 1000:.0f} ms per question")
+    print("right among answers not flagged unsure: " + (
+        f"{result.sure_accuracy:.1%} ({result.right_sure}/{result.sure})" if result.sure
+        else "none was sure") + f"; flagged unsure {result.flagged:.1%}")
     for kind, (right, n) in result.by_kind.items():
         print(f"  {kind:18s} {right:4d}/{n:<4d} {right / n:.0%}")
     return 0

@@ -5,12 +5,15 @@ import asyncio
 import itertools
 import json
 import re
+import subprocess
+import sys
 from pathlib import Path
 
 import pytest
 
 import tabq
 from tabq import calibration, pipeline
+from tabq.answers import matches
 from tabq.output import as_json, format_result
 from tabq.ui.app import TabqApp
 from tabq.ui.widgets import AnswerList
@@ -118,3 +121,30 @@ def test_the_app_lists_answers_in_order_of_probability(penguins_csv, tmp_path):
                      for p in re.findall(r"(\d+)%", str(listed.get_option_at_index(i).prompt))]
             assert len(shown) > 1 and _descending(shown)
     asyncio.run(run())
+
+
+def test_eval_reports_accuracy_among_sure_answers_and_predictions_say_how_sure(tmp_path):
+    """Questions on the zero-shot penguins: the predictions carry each answer's confidence and
+    flag, and the report's two figures are counted from them."""
+    lines = (ZEROSHOT / "penguins.jsonl").read_text(encoding="utf-8").splitlines()[:12]
+    examples = tmp_path / "set.jsonl"
+    examples.write_text("\n".join(json.dumps({**json.loads(line), "table": str(
+        ZEROSHOT / "penguins.csv")}) for line in lines) + "\n", encoding="utf-8")
+    out = tmp_path / "predictions.jsonl"
+    run = subprocess.run([sys.executable, "-m", "tabq", "eval", str(examples), "--predictions",
+                          str(out), "--json", "--workers", "1"], capture_output=True, text=True)
+    assert run.returncode == 0, run.stderr
+    report = json.loads(run.stdout)
+    predictions = [json.loads(line) for line in out.read_text(encoding="utf-8").splitlines()]
+    assert len(predictions) == 12
+    for p in predictions:
+        assert 0 < p["confidence"] <= 1 and p["unsure"] == (p["unsure_reason"] is not None)
+    gold = {json.loads(line)["id"]: json.loads(line)["answer"] for line in lines}
+    sure = [p for p in predictions if not p["unsure"]]
+    assert sure, "some of these plain questions are answered surely"
+    right = sum(matches(p["answer"], gold[p["id"]]) for p in sure)
+    assert report["sure_accuracy"] == round(right / len(sure), 4)
+    assert report["flagged"] == round(1 - len(sure) / 12, 4)
+    text = subprocess.run([sys.executable, "-m", "tabq", "eval", str(examples), "--workers", "1"],
+                          capture_output=True, text=True).stdout
+    assert "right among answers not flagged unsure: " in text and "flagged unsure " in text

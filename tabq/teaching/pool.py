@@ -60,24 +60,30 @@ def search_batch(jobs: list[Job], execute: int, pair_beam: int) -> list[tuple[st
     return out
 
 
+_NO_ANSWER = {"confidence": 0.0, "unsure": True, "unsure_reason": "no answer"}
+
+
 def answer_batch(jobs: list[Job], execute: int) -> list[tuple[str, dict]]:
-    """Each job's top answer and SQL, whether a candidate gave its gold answer, and the time."""
+    """Each job's top answer and SQL, how sure of it and why not, whether a candidate gave its
+    gold answer, and the time."""
     out = []
     try:
         table = _open(jobs)
     except TabqError as err:
         return [(job.id, {"answer": [], "sql": None, "error": str(err), "oracle": False,
-                          "seconds": 0.0}) for job in jobs]
+                          **_NO_ANSWER, "seconds": 0.0}) for job in jobs]
     for job in jobs:
         start = time.perf_counter()
         try:
             result = table.ask(job.question, execute=execute)
         except TabqError as err:
             out.append((job.id, {"answer": [], "sql": None, "error": str(err), "oracle": False,
-                                 "seconds": time.perf_counter() - start}))
+                                 **_NO_ANSWER, "seconds": time.perf_counter() - start}))
             continue
         oracle = any(not c.error and matches(c.answer, job.answer) for c in result.candidates)
         out.append((job.id, {"answer": _plain(result.answer), "sql": result.sql,
+                             "confidence": result.confidence, "unsure": result.unsure,
+                             "unsure_reason": result.unsure_reason,
                              "oracle": oracle, "seconds": time.perf_counter() - start}))
     return out
 
