@@ -55,10 +55,15 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "having": (-1.5, {"have": 2.0, "has": 2.0, "had": 1.5, "with": 1.8, "whose": 2.0}),
     "share:percent": (-3.0, {"percent": 4.0, "percentage": 4.0, "pct": 3.5, "per cent": 4.0}),
     "share:fraction": (-3.0, {"share": 4.0, "fraction": 4.0, "proportion": 4.0, "ratio": 3.0}),
-    # no word stands on "above average"'s comparison: only an average word may bring it in
-    "than:avg": (-5.0, {"average": 4.7, "mean": 4.7, "avg": 4.7, "than average": 1.5,
-                        "than the average": 1.5, "than the mean": 1.5}),
-    "than:median": (-5.5, {"median": 5.2}),
+    # no word stands on "above average"'s comparison: only a comparison word beside an average
+    # word brings it in ("above the average amount", "heavier than average"), not "average" alone
+    "than:avg": (-5.0, {"average": 1.5, "mean": 1.5, "avg": 1.5,
+                        **{f"{side} {the}{word}": 3.5 for side in ("than", "above", "below",
+                                                                   "over", "under")
+                           for the in ("", "the ") for word in ("average", "mean")}}),
+    "than:median": (-5.5, {"median": 1.5, **{f"{side} {the}median": 4.0
+                                             for side in ("than", "above", "below", "over",
+                                                          "under") for the in ("", "the ")}}),
     "per:month": (-1.0, {"month": 2.0, "monthly": 2.0, "by month": 2.5, "per month": 2.5,
                          "each month": 2.5, "every month": 2.5, "a month": 1.0}),
     "per:year": (-1.0, {"year": 2.0, "yearly": 2.0, "annual": 1.5, "annually": 2.0,

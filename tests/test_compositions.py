@@ -174,6 +174,13 @@ def test_above_average_composes_with_another_condition(orders, orders_df):
     check(orders, "how many late orders have an amount above the average", expected)
 
 
+@pytest.mark.parametrize("question", ["what is the average price of products in stock",
+                                      "what is the median price of stocked products"])
+def test_an_average_asked_for_is_no_comparison_with_the_average(products, question):
+    # no comparison word beside "average": the average is the answer, not a row filter
+    assert "cmp_agg" not in str(products.ask(question).best.form)
+
+
 # ── 4. per-month and per-year tables ──────────────────────────────────────────────────────────
 def month_table(frame: pd.DataFrame, values: pd.Series) -> list[tuple]:
     months = frame.placed_on.dt.strftime("%Y-%m")
