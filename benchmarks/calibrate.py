@@ -57,6 +57,7 @@ class Question:
     answers: list[dict]    # per distinct answer: reading scores (best first), right, signals
     complete: bool
     never_used: list[str]  # content words of the question no executed reading uses
+    commit: str = ""       # the code it was asked with (see `commit`)
 
 
 def set_name(path: Path) -> str:
@@ -89,6 +90,16 @@ def _ask_group(args: tuple[str, str, list[dict]]) -> list[dict]:
     return out
 
 
+def commit() -> str:
+    """The commit the fit ran on, + when the working tree differs from it."""
+    import subprocess
+    head = subprocess.run(["git", "-C", str(ROOT), "rev-parse", "--short", "HEAD"],
+                          capture_output=True, text=True, check=False).stdout.strip()
+    dirty = subprocess.run(["git", "-C", str(ROOT), "status", "--porcelain", "--untracked-files=no"],
+                           capture_output=True, text=True, check=False).stdout.strip()
+    return (head or "unknown") + ("+" if dirty else "")
+
+
 def collect(paths: list[Path]) -> list[Question]:
     """Ask every question, tables spread over up to two processes."""
     jobs: dict[tuple[str, str], list[dict]] = defaultdict(list)
@@ -98,7 +109,7 @@ def collect(paths: list[Path]) -> list[Question]:
             jobs[set_name(path), str((path.parent / ex["table"]).resolve())].append(ex)
     with ProcessPoolExecutor(min(2, os.cpu_count() or 1)) as pool:
         done = pool.map(_ask_group, [(n, t, exs) for (n, t), exs in jobs.items()])
-        return [Question(**q) for group in done for q in group]
+        return [Question(**q, commit=commit()) for group in done for q in group]
 
 
 def load(paths: list[Path], cache: Path | None) -> list[Question]:
@@ -180,8 +191,9 @@ def fit_temperature(sets: dict[str, list[Question]], agreement: float) -> float:
 # the fit keeps those that let a lower SURE_AT reach the precision (see `fit_flag`).
 SIGNALS = {
     "words no reading uses": lambda t: len(t.never_used) > 0,
-    "two words the answer ignores": lambda t: len(t.answer["unused"]) >= 2,
-    "a word the answer ignores": lambda t: len(t.answer["unused"]) >= 1,
+    "1+ words the answer ignores": lambda t: len(t.answer["unused"]) >= 1,
+    "2+ words the answer ignores": lambda t: len(t.answer["unused"]) >= 2,
+    "3+ words the answer ignores": lambda t: len(t.answer["unused"]) >= 3,
     "strong cue unexplained": lambda t: t.answer["cue:unexplained"] > 0,
     "named value unused": lambda t: (t.answer["num:unused"] + t.answer["date:unused"]
                                      + t.answer["ent:unused"]) > 0,
@@ -189,6 +201,7 @@ SIGNALS = {
     "runner-up within 0.5": lambda t: t.gap < 0.5,
     "runner-up within 1": lambda t: t.gap < 1.0,
 }
+IGNORED_WORDS = (0, 2, 3)   # what the fit may choose for calibration.IGNORED_WORDS (0: off)
 SURE_ATS = tuple(round(0.2 + 0.01 * k, 2) for k in range(80))    # 0.20 … 0.99
 FLAG_PREFIX = "zeroshot/"
 
@@ -250,6 +263,11 @@ class Fit:
     agreement: float
     temperature: float
     sure_at: float
+    ignored_words: int
+
+    @property
+    def signals(self) -> tuple[str, ...]:
+        return ignored(self.ignored_words)
 
     def tops(self, questions: list[Question]) -> list[Top]:
         return [top(q, self.agreement, self.temperature) for q in questions]
@@ -261,17 +279,30 @@ def fit(questions: list[Question]) -> Fit:
     temperature = fit_temperature(sets, agreement)
     tops = {name: [top(q, agreement, temperature) for q in qs]
             for name, qs in flag_sets(sets).items()}
-    return Fit(agreement, temperature, fit_sure_at(tops, ()))
+    options = [Fit(agreement, temperature, fit_sure_at(tops, ignored(n)), n)
+               for n in IGNORED_WORDS]
+    return min(options, key=lambda f: _flag_cost(f, tops))     # on a tie, the first: no signal
 
 
-def held_out_kinds(questions: list[Question]) -> list[tuple[Top, float]]:
+def ignored(words: int) -> tuple[str, ...]:
+    """The signal calibration.IGNORED_WORDS turns on, as named in SIGNALS."""
+    return (f"{words}+ words the answer ignores",) if words else ()
+
+
+def _flag_cost(f: Fit, tops: dict[str, list[Top]]) -> tuple[bool, float]:
+    """Short of the precision first, then the share flagged."""
+    got = pooled(tops, f.sure_at, f.signals)
+    return got.precision < PRECISION, round(got.share, 9)
+
+
+def held_out_kinds(questions: list[Question]) -> list[tuple[Top, Fit]]:
     """Each kind of the flag's sets measured with the constants fitted without that kind."""
     out = []
     kinds = {(q.set, q.kind) for q in questions if q.set.startswith(FLAG_PREFIX)}
     for kind in sorted(kinds):
         f = fit([q for q in questions if (q.set, q.kind) != kind])
         tops = f.tops([q for q in questions if (q.set, q.kind) == kind])
-        out += [(t, f.sure_at) for t in tops]
+        out += [(t, f) for t in tops]
     return out
 
 
@@ -349,19 +380,22 @@ Fitted by benchmarks/calibrate.py on {time.strftime("%Y-%m-%d")}, untaught model
 benchmarks/zeroshot2/ was kept out as the held-out test. AGREEMENT:
 the value whose top answers are right most often, averaged over the sets (ties to the smaller).
 TEMPERATURE: least log loss of "the top answer is right" against its probability, each set
-weighing the same. SURE_AT: the lowest probability from which the top answers of the
-zeroshot sets are right at least 95% of the time (on the other sets no threshold gets there
-short of flagging nearly all). Refit: python benchmarks/calibrate.py --write.
+weighing the same. SURE_AT and IGNORED_WORDS: of the thresholds from which the top answers of
+the zeroshot sets are right at least 95% of the time, the one flagging the fewest (on the other
+sets no threshold gets there short of flagging nearly all), tried with IGNORED_WORDS off, 2 and 3.
+Asked at commit {", ".join(sorted({q.commit for q in questions}))} ("+": with uncommitted changes).
+Refit: python benchmarks/calibrate.py --write.
 """
 
 AGREEMENT = {f.agreement}  # weight of the log-sum-exp bonus for other readings giving the same answer
 TEMPERATURE = {f.temperature}  # answer scores are divided by this before the softmax
 SURE_AT = {f.sure_at}  # the top answer's probability from which it is not flagged unsure
+IGNORED_WORDS = {f.ignored_words}  # flagged too when its reading ignores this many content words (0: off)
 '''
 
 
-def report(name: str, tops: list[Top], sure_at: float) -> str:
-    f = flags(tops, sure_at)
+def report(name: str, tops: list[Top], fitted: Fit) -> str:
+    f = flags(tops, fitted.sure_at, fitted.signals)
     right = sum(t.right for t in tops)
     return (f"  {name:24s} {len(tops):4d}  accuracy {right / max(len(tops), 1):6.1%}  "
             f"right among sure {f.precision:6.1%} ({f.right_sure}/{f.sure})  "
@@ -370,11 +404,12 @@ def report(name: str, tops: list[Top], sure_at: float) -> str:
 
 def measure(sets: dict[str, list[Question]], picture: Path | None) -> None:
     """The constants in use, measured on sets they were not fitted on."""
-    f = Fit(calibration.AGREEMENT, calibration.TEMPERATURE, calibration.SURE_AT)
+    f = Fit(calibration.AGREEMENT, calibration.TEMPERATURE, calibration.SURE_AT,
+            calibration.IGNORED_WORDS)
     print(f"measured with AGREEMENT = {f.agreement}, TEMPERATURE = {f.temperature}, "
-          f"SURE_AT = {f.sure_at}")
+          f"SURE_AT = {f.sure_at}, IGNORED_WORDS = {f.ignored_words}")
     for name, qs in sets.items():
-        print(report(name, f.tops(qs), f.sure_at))
+        print(report(name, f.tops(qs), f))
     print("  bin      questions  mean probability  share right")
     for low, p, r, n in reliability([t for qs in sets.values() for t in f.tops(qs)]):
         print(f"  {low:.1f}–{low + 0.1:.1f}  {n:9d}  {p:16.1%}  {r:11.1%}")
@@ -397,17 +432,17 @@ def main(argv: list[str]) -> None:
         print(f"  {a:4}  " + "  ".join(f"{n} {accuracy(qs, a):6.1%}" for n, qs in sets.items()))
     f = fit(questions)
     print(f"\nfitted: AGREEMENT = {f.agreement}, TEMPERATURE = {f.temperature}, "
-          f"SURE_AT = {f.sure_at}")
+          f"SURE_AT = {f.sure_at}, IGNORED_WORDS = {f.ignored_words}")
     print("\nfitted on every set, measured on each")
     for name, qs in sets.items():
-        print(report(name, f.tops(qs), f.sure_at))
+        print(report(name, f.tops(qs), f))
     kinds = held_out_kinds(questions)
-    sure = [t for t, sure_at in kinds if not flagged(t, sure_at, ())]
+    sure = [t for t, g in kinds if not flagged(t, g.sure_at, g.signals)]
     print(f"\neach kind of {FLAG_PREFIX}* measured with the constants fitted without it: right "
           f"among sure {_mean([t.right for t in sure]):.1%} ({sum(t.right for t in sure)}/"
           f"{len(sure)}), flagged {1 - len(sure) / max(len(kinds), 1):.1%} of {len(kinds)}")
     tops = {name: f.tops(qs) for name, qs in flag_sets(sets).items()}
-    alone = pooled(tops, f.sure_at, ())
+    alone = pooled(tops, fit_sure_at(tops, ()), ())
     print(f"\nextra reasons to flag, on {FLAG_PREFIX}* (probability alone: right among sure "
           f"{alone.precision:.1%}, flagged {alone.share:.1%})")
     for name, sure_at, g in signal_effects(tops):

@@ -170,21 +170,28 @@ class OpenTable:
 
 
 def unsure_reason(result: Result) -> str | None:
-    """The reason to doubt the top answer, or None. Only the time limit and the probability
-    flag it: benchmarks/calibrate.py measured the other signals (words no reading uses, a close
-    runner-up, unexplained cue words) and none flagged fewer answers at the same precision, so
+    """The reason to doubt the top answer, or None. The limits are fitted (tabq/calibration.py);
+    benchmarks/calibrate.py measured other signals too (words no reading uses, a close
+    runner-up, unexplained cue words): none flagged fewer answers at the same precision, so
     they only say more about a low probability."""
-    if result.best is None:
+    best = result.best
+    if best is None:
         return "no reading fits"
     if not result.complete:
         return "the search stopped at its time limit"
-    if result.confidence >= calibration.SURE_AT:
-        return None
-    why = f"low probability ({result.confidence:.0%}"
-    if len(result.readings) > 1:
-        why += f", the runner-up {result.readings[1].probability:.0%}"
-    words = never_used(result.candidates)[:MAX_WORDS]
-    return why + ")" + (f"; no reading uses {', '.join(map(repr, words))}" if words else "")
+    if result.confidence < calibration.SURE_AT:
+        why = f"low probability ({result.confidence:.0%}"
+        if len(result.readings) > 1:
+            why += f", the runner-up {result.readings[1].probability:.0%}"
+        words = never_used(result.candidates)[:MAX_WORDS]
+        return why + ")" + (f"; no reading uses {_quoted(words)}" if words else "")
+    if calibration.IGNORED_WORDS and len(best.unused) >= calibration.IGNORED_WORDS:
+        return f"its reading ignores the words {_quoted(best.unused[:MAX_WORDS])}"
+    return None
+
+
+def _quoted(words: tuple[str, ...]) -> str:
+    return ", ".join(f"'{w}'" for w in words)
 
 
 def never_used(candidates: list[Reading]) -> tuple[str, ...]:
