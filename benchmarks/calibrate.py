@@ -318,13 +318,21 @@ def reliability(tops: list[Top], bins: int = 10) -> list[tuple[float, float, flo
     return rows
 
 
+def curves(f: Fit, sets: dict[str, list[Question]]) -> dict[str, list]:
+    """Reliability in bins of 0.2 per family of sets (zeroshot, zeroshot2, wtq, vocabulary)."""
+    families: dict[str, list[Top]] = defaultdict(list)
+    for name, qs in sets.items():
+        families[name.split("/")[0]] += f.tops(qs)
+    return {name: reliability(tops, 5) for name, tops in families.items()}
+
+
 def svg(series: dict[str, list[tuple[float, float, float, int]]], sure_at: float,
         path: Path) -> None:
     """The reliability curve: share right against the probability shown, one line per series,
     each point a bin (its area the number of questions), with the diagonal of perfect
     calibration and the threshold below which an answer is flagged."""
     size, pad = 360, 48
-    colours = ("#2b6cb0", "#c05621", "#2f855a", "#6b46c1")
+    colours = ("#2b6cb0", "#c05621", "#2f855a", "#6b46c1", "#b83280", "#975a16", "#2c7a7b")
 
     def xy(p: float, r: float) -> str:
         return f"{pad + p * size:.1f},{pad + (1 - r) * size:.1f}"
@@ -414,7 +422,7 @@ def measure(sets: dict[str, list[Question]], picture: Path | None) -> None:
     for low, p, r, n in reliability([t for qs in sets.values() for t in f.tops(qs)]):
         print(f"  {low:.1f}–{low + 0.1:.1f}  {n:9d}  {p:16.1%}  {r:11.1%}")
     if picture:
-        svg({name: reliability(f.tops(qs), 5) for name, qs in sets.items()}, f.sure_at, picture)
+        svg(curves(f, sets), f.sure_at, picture)
 
 
 def main(argv: list[str]) -> None:
@@ -453,7 +461,7 @@ def main(argv: list[str]) -> None:
     for low, p, r, n in reliability(f.tops(questions)):
         print(f"  {low:.1f}–{low + 0.1:.1f}  {n:9d}  {p:16.1%}  {r:11.1%}")
     if picture:
-        svg({name: reliability(f.tops(qs), 5) for name, qs in sets.items()}, f.sure_at, picture)
+        svg(curves(f, sets), f.sure_at, picture)
     if "--write" in argv:
         (ROOT / "tabq" / "calibration.py").write_text(constants_text(f, questions),
                                                       encoding="utf-8")
