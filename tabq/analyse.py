@@ -145,7 +145,8 @@ def _head(words: Words, openers: tuple[str, ...]) -> int:
         else:
             continue
         while j < len(texts) and texts[j] in {"different", "distinct", "unique", "the", "kind",
-                                               "kinds", "of", "type", "types"}:
+                                               "kinds", "of", "type", "types", "more", "fewer",
+                                               "less"}:   # "how many more tickets …"
             j += 1
         return j
     return -1
@@ -287,7 +288,7 @@ def _match_header(header: tuple[list[str], set[str]], stems: list[str], words: W
     for i, s in enumerate(stems):
         if words.tokens[i].stop or not s[0].isalnum():
             continue
-        base = _degree_base(words.tokens[i].text)
+        base = degree_base(words.tokens[i].text)
         if any(h in SYNONYMS.get(s, ()) or (base and (h == base or h in SYNONYMS.get(base, ())))
                for h in core):
             return "synonym", (i, i + 1)
@@ -326,9 +327,9 @@ def _shortened_mention(core: set[str], words: Words) -> tuple[int, int] | None:
 def _spellings(tok) -> set[str]:
     """A question word and the words it may stand for (peak → high, warmest → temperature)."""
     out = {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())}
-    base = _degree_base(tok.text)
-    if base:
-        out |= {base, *SYNONYMS.get(base, ())}
+    base = degree_base(tok.text)
+    if base:   # the base's own letters say too little: wet (wettest) is not wt (weight)
+        out |= set(SYNONYMS.get(base, ()))
     return out
 
 
@@ -349,7 +350,7 @@ def _joins(short: str, first, second) -> bool:
                       for w in (second.text, second.stem)))
 
 
-def _degree_base(word: str) -> str | None:
+def degree_base(word: str) -> str | None:
     """The stem under a comparative or superlative: heaviest → heavi, longer → long."""
     for suffix, repl in (("iest", "i"), ("ier", "i"), ("est", ""), ("er", "")):
         if word.endswith(suffix) and len(word) - len(suffix) >= 3:

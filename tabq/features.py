@@ -17,7 +17,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from . import featurenames
-from .analyse import Analysis, Atom
+from .analyse import Analysis, Atom, degree_base
 from .answers import Denotation
 from .logic import Extreme, Neighbour, Position, walk
 from .rules import OPERATOR_FRAGMENTS, spec_of
@@ -125,7 +125,17 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                     _add(feats, f"head:{step.rule}|number")
             if atom.span and atom.span[0] == analysis.wh_head and spec.head:
                 _add(feats, f"whhead:{step.rule}")
+            if (spec.superlative or spec.aggregating) and atom.span \
+                    and _degree_word(analysis, atom.span):
+                _add(feats, f"degree_word:{spec.role}")   # "the heaviest": weight orders
+                for agg in (a.value for a in step.atoms if a.slot == "AGG"):
+                    _add(feats, f"degree_word:group:{agg}")   # … one row, not a group's sum
     return feats
+
+
+def _degree_word(analysis: Analysis, span: tuple[int, int]) -> bool:
+    """Whether a column was named by a comparative or superlative ("warmest", "heavier")."""
+    return span[1] - span[0] == 1 and degree_base(analysis.words.tokens[span[0]].text) is not None
 
 
 @node_feature
@@ -147,6 +157,35 @@ def value_matches(analysis: Analysis, step: Step) -> Features:
             if atom.quality == "quoted":
                 _add(feats, "cover:quoted")
     return feats
+
+
+COUNT_OPENERS = frozenset({"which", "what", "top", "bottom", "first", "last", "the", "list",
+                           "name", "show", "give"})
+
+
+@node_feature
+def answer_count(analysis: Analysis, step: Step) -> Features:
+    """A number right after "which", "top", "the" … ("which 2 players", "top 5 products") says
+    how many answers are asked for: read as a cell value or a threshold it is misread."""
+    span = _answer_count_span(analysis)
+    if span is None:
+        return {}
+    takes_count = any(f.startswith(("top_n", "group_top")) for f in spec_of(step.rule).fragments)
+    for atom in step.atoms:
+        if atom.slot in ("NUMBER", "ENTITY") and atom.span == span:
+            return {"num:answer_count" if takes_count else "num:answer_count_misread": 1.0}
+    return {}
+
+
+def _answer_count_span(analysis: Analysis) -> tuple[int, int] | None:
+    if "answer_count" not in analysis.cache:
+        tokens = analysis.words.tokens
+        numbers = {a.span for a in analysis.atoms.get("NUMBER", []) if a.span}
+        analysis.cache["answer_count"] = next(
+            ((i + 1, i + 2) for i, tok in enumerate(tokens[:-2])
+             if tok.text in COUNT_OPENERS and (i + 1, i + 2) in numbers
+             and not tokens[i + 2].stop), None)
+    return analysis.cache["answer_count"]
 
 
 @node_feature

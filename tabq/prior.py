@@ -24,11 +24,13 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "median": (-2.5, {"median": 5.0, "middle": 1.0}),
     "min": (-1.8, {"minimum": 2.6, "lowest": 2.2, "smallest": 2.2, "least": 1.6, "min": 2.6,
                    "shortest": 2.0, "cheapest": 2.0, "lightest": 2.0, "earliest": 1.8,
-                   "fewest": 1.5, "youngest": 1.5, "quickest": 1.6, "fastest": 1.6}),
+                   "fewest": 1.5, "youngest": 1.5, "quickest": 1.6, "fastest": 1.6,
+                   "coldest": 2.0, "coolest": 2.0, "lowest point": 1.0}),
     "max": (-1.8, {"maximum": 2.6, "highest": 2.2, "largest": 2.2, "biggest": 2.2, "most": 1.4,
                    "max": 2.6, "longest": 2.0, "greatest": 2.0, "heaviest": 2.0,
                    "latest": 1.8, "top": 1.2, "priciest": 2.0, "record": 1.0, "oldest": 1.5,
-                   "tallest": 2.0, "slowest": 1.6, "costliest": 2.0, "expensive": 1.4}),
+                   "tallest": 2.0, "slowest": 1.6, "costliest": 2.0, "expensive": 1.4,
+                   "peak": 2.0, "warmest": 2.0, "hottest": 2.0, "wettest": 2.0}),
     "values": (0.0, {"what": 0.5, "which": 0.5, "who": 0.6, "when": 0.6, "where": 0.6,
                      "what is": 0.5, "list": 0.3, "name": 0.3, "how many": -0.8}),
     "distinct": (-1.4, {"different": 1.6, "distinct": 2.0, "unique": 2.0, "list": 0.8,
@@ -113,12 +115,13 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                            "top": 1.6, "best": 1.4, "latest": 1.8, "last": 0.5, "max": 2.2,
                            "tallest": 2.4, "oldest": 1.2, "priciest": 2.4, "expensive": 2.0,
                            "more": 0.5, "record": 0.8, "slowest": 2.0, "costliest": 2.4,
-                           "recent": 1.8, "newest": 1.8}),
+                           "recent": 1.8, "newest": 1.8, "peak": 2.0, "warmest": 2.4,
+                           "hottest": 2.4, "wettest": 2.4}),
     "extreme:min": (-1.8, {"least": 2.0, "lowest": 2.4, "smallest": 2.4, "minimum": 2.2,
                            "shortest": 2.4, "fewest": 2.4, "lightest": 2.4, "cheapest": 2.4,
                            "earliest": 2.2, "worst": 1.0, "min": 2.2, "youngest": 1.2,
                            "quickest": 2.4, "fastest": 2.2, "first": 0.4, "less": 0.5,
-                           "soonest": 2.0}),
+                           "soonest": 2.0, "coldest": 2.4, "coolest": 2.4, "driest": 2.4}),
     "first": (-2.6, {"first": 2.6, "earliest": 1.0, "top": 0.8, "opening": 1.5,
                      "begin": 1.0, "start": 1.0, "initial": 2.0}),
     "last": (-2.6, {"last": 2.6, "final": 2.6, "latest": 1.0, "bottom": 1.2, "end": 0.8,
@@ -228,6 +231,7 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "peak": ("high", "max", "top"), "high": ("height", "max"), "low": ("min",),
     "warm": ("temperatur", "high", "max"), "hot": ("temperatur", "high", "max"),
     "cool": ("temperatur", "low", "min"), "cold": ("temperatur", "low", "min"),
+    "wet": ("precipit", "rain"), "rain": ("precipit",), "dri": ("precipit",),
 }
 
 
@@ -275,6 +279,9 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "measure.col:exact": 0.6, "key.col:exact": 0.3,
     "filter.col:none": -0.4, "filter.col:exact": 0.3,
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
+    "num:answer_count": 0.5, "num:answer_count_misread": -2.0,
+    "degree_word:order": 1.0, "degree_word:measure": 1.0, "degree_word:group:sum": -1.0, "degree_word:group:max": 0.5,
+    "degree_word:group:min": 0.5,
     "head:unused_measure": -1.0,     # "how many goals" (a goals column) not answered from it
     "head:counted_measure": -4.0,    # … but by counting rows
     # … or by counting its different values, or grouping by them

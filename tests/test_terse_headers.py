@@ -79,3 +79,25 @@ def test_how_many_of_a_number_column_reads_it_rather_than_counting_rows(players,
                                                                          expected):
     frame, table = players
     assert matches(table.ask(question).answer, [expected(frame)]), question   # pandas
+
+
+@pytest.mark.parametrize("question, expected", [
+    ("which 2 players scored the most goals",
+     lambda f: set(f.nlargest(2, "goals").player)),
+    ("the 3 players with the most assists", lambda f: set(f.nlargest(3, "assists").player)),
+    ("which players scored 15 goals", lambda f: set(f.player[f.goals == 15])),
+])
+def test_a_number_after_which_or_the_counts_the_answers(players, question, expected):
+    frame, table = players
+    assert set(table.ask(question).answer) == expected(frame), question   # pandas
+
+
+@pytest.mark.parametrize("question, expected", [
+    ("what was the peak temperature", lambda f: f.temp_hi.max()),
+    ("which station had the warmest day", lambda f: f.stn[f.temp_hi.idxmax()]),
+    ("which station had the heaviest parcel", lambda f: f.stn[f.wt_kg.idxmax()]),
+    ("when was the coldest night", lambda f: f.dt[f.temp_lo.idxmin()]),
+])
+def test_a_measure_adjective_orders_by_the_column_it_names(stations, question, expected):
+    frame, table = stations
+    assert matches(table.ask(question).answer, [expected(frame)]), question   # pandas
