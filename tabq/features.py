@@ -19,6 +19,7 @@ from dataclasses import dataclass
 from . import featurenames
 from .analyse import Analysis, Atom, degree_base
 from .answers import Denotation
+from .text import split_words
 from .logic import Extreme, Neighbour, Position, walk
 from .rules import OPERATOR_FRAGMENTS, spec_of
 
@@ -121,7 +122,7 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "cover", atom.covers)
             if atom.span and atom.span[0] == analysis.head and spec.head:
                 _add(feats, f"head:{step.rule}")
-                if col.kind == "number":    # "how many goals": a quantity, not its values
+                if _is_quantity(col, analysis, atom.span):   # "how many goals"
                     _add(feats, f"head:{step.rule}|number")
             if atom.span and atom.span[0] == analysis.wh_head and spec.head:
                 _add(feats, f"whhead:{step.rule}")
@@ -295,9 +296,19 @@ def _asked_measure(analysis: Analysis) -> tuple[int, int] | None:
         return None
     for name, span in analysis.spans.items():
         if span[0] == analysis.head and analysis.col_match.get(name) in ("exact", "stem") \
-                and analysis.table.column(name).kind == "number":
+                and _is_quantity(analysis.table.column(name), analysis, span):
             return span
     return None
+
+
+def _is_quantity(col, analysis: Analysis, span: tuple[int, int]) -> bool:
+    """Whether "how many <word>" asks for a number column's amount: "goals" with a goals column
+    does, "tickets" with a ticket column (one ticket a row, its number) counts rows. The
+    question's word must be the header's word as written, plural for plural."""
+    if col.kind != "number":
+        return False
+    said = analysis.words.tokens[span[0]].text
+    return said in split_words(col.header.replace("_", " "))
 
 
 # ── answers ───────────────────────────────────────────────────────────────────────────────────
