@@ -65,8 +65,7 @@ def test_fused_answers_equal_each_query_alone(penguins_csv, demo_csv):
         forms = [i.form for i in derive(analyse(question, fused_table), Model.prior())[:60]]
         fused = execute.run_many(fused_table, forms)
         for form, den in zip(forms, fused, strict=True):
-            alone = execute._execute(alone_table, render(form), 30.0,
-                                     isinstance(form, L.GroupTable))
+            alone = execute._execute(alone_table, render(form), 30.0, form.tabular)
             assert same(den, alone), (question, render(form), den, alone)
             compared += 1
         fused_groups += sum(isinstance(f, (L.GroupBest, L.GroupTop, L.Aggregate)) for f in forms)
