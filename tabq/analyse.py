@@ -100,8 +100,8 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
 
 def _content_tokens(words: Words, table: Table) -> frozenset[int]:
     ids = {stem(w) for col in table.columns if _is_id(col, table)
-           for w in split_words(_header_text(col)) if w not in ("id", "no", "number")}
-    headers = {stem(w) for col in table.columns for w in split_words(_header_text(col))}
+           for w in split_words(header_text(col)) if w not in ("id", "no", "number")}
+    headers = {stem(w) for col in table.columns for w in split_words(header_text(col))}
     title = {stem(w) for w in split_words(table.title.replace("_", " "))} - headers
     row_nouns = ({stem(w) for w in ROW_NOUNS} - headers) | title | ids
     cue_stems = {stem(w) for w in CUE_WORDS}
@@ -200,7 +200,7 @@ def _wh_columns(words: Words, table: Table, qtype: str, spans: dict) -> list[Ato
 def _wh_kind(col: Column, qtype: str, kinds: frozenset[str]) -> bool:
     """Whether a column holds what the wh-word asks for: by its header's words, or its kind
     (a date for "when"), or its values (people's names for "who")."""
-    header = {stem(w) for w in split_words(_header_text(col))}
+    header = {stem(w) for w in split_words(header_text(col))}
     if header & kinds:
         return True
     if qtype == "when":
@@ -252,13 +252,13 @@ def _column_mentions(words, table, content, atoms, deadline=None):
 
 def _header_words(col: Column) -> tuple[list[str], set[str]]:
     """The stems of a header, and those of them that must be said for an exact mention."""
-    words = split_words(_header_text(col)) or split_words(col.base.replace("_", " "))
+    words = split_words(header_text(col)) or split_words(col.base.replace("_", " "))
     stems = [stem(w) for w in words]
     core = {stem(w) for w in words if w not in UNIT_WORDS} or set(stems)
     return stems, core
 
 
-def _header_text(col: Column) -> str:
+def header_text(col: Column) -> str:
     """A header's words as the question may say them. A header can be a whole paragraph (or a
     misread cell): its first MAX_HEADER characters are matched, so it cannot slow every
     question down."""

@@ -17,7 +17,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from . import featurenames
-from .analyse import Analysis, Atom, degree_base
+from .analyse import Analysis, Atom, degree_base, header_text
 from .answers import Denotation
 from .text import split_words
 from .logic import Extreme, Neighbour, Position, walk
@@ -308,7 +308,7 @@ def _is_quantity(col, analysis: Analysis, span: tuple[int, int]) -> bool:
     if col.kind != "number":
         return False
     said = analysis.words.tokens[span[0]].text
-    return said in split_words(col.header.replace("_", " "))
+    return said in split_words(header_text(col))
 
 
 # ── answers ───────────────────────────────────────────────────────────────────────────────────
