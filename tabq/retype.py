@@ -85,6 +85,9 @@ VIEW_KINDS = {"number": "number", "number2": "number", "date": "date", "year": "
 
 
 _HAS_DIGIT = re.compile(r"[0-9]")
+# A code such as "HF-20074" or "SKU_118": letters joined to digits. Its digits number rows or
+# things, so they get no number, date or year view (a parcel id is no measure).
+_CODE = re.compile(r"[A-Za-z]{1,6}[-_/#.]?[0-9]{2,}[A-Za-z]?")
 
 
 # Strict shapes for retyping a text column whose every real cell is a clean value. Valid both as
@@ -461,7 +464,8 @@ def derive_views(counts: list[tuple[str, int]]) -> dict[str, dict[str, object]]:
     total = sum(n for _, n in real)
     if not total:
         return {}
-    digits = [(text, n) for text, n in real if _HAS_DIGIT.search(text)]   # no digit, no value
+    digits = [(text, n) for text, n in real                                 # no digit, no value
+              if _HAS_DIGIT.search(text) and not _CODE.fullmatch(text)]
     dayfirst = values.numeric_date_order([text for text, _ in digits])
     parsed: dict[str, dict[str, object]] = {"number": {}, "number2": {}, "date": {}, "year": {}}
     for text, _ in digits:

@@ -701,3 +701,12 @@ def test_a_long_last_line_never_becomes_the_header(tmp_path):
     assert [c.name for c in table.columns] == ["key", "n"] and table.row_count == 31
     assert rows(table, f"SELECT sum(n) FROM {TABLE}") == [(sum(range(31)),)]
     assert any("line 32" in note for note in table.report.notes())
+
+
+def test_codes_get_no_number_view(tmp_path):
+    """Ids such as "HF-20074" hold digits but no amount: a number view of them would stand in for
+    a measure ("the heaviest parcel" ranked by id). Amounts with a unit keep theirs."""
+    lines = ["parcel,weight"] + [f"HF-{20000 + i},{i + 1} kg" for i in range(12)]
+    table = load_table(write(tmp_path / "parcels.csv", "\n".join(lines) + "\n"))
+    assert "parcel__number" not in names(table) and "parcel__year" not in names(table)
+    assert rows(table, f"SELECT max(weight__number) FROM {TABLE}") == [(12,)]
