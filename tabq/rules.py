@@ -134,21 +134,38 @@ def compare(a, col: str, op: str, number: float) -> L.Rows | None:
 
 @specify(fragments=("cmp:{CMP}",), role="datefilter")
 def compare_date(a, col: str, op: str, date) -> L.Rows | None:
-    if date.day and date.month and date.year:
-        try:
-            value = datetime.date(date.year, date.month, date.day)
-        except ValueError:
-            return None
-    elif date.year and not date.month:   # "after 2019" is after the end of 2019
-        value = datetime.date(date.year, 12, 31) if op in ("gt", "le") else datetime.date(
-            date.year, 1, 1)
-    elif date.year:   # "after October 2024" is after its last day, "before" before its first
-        value = datetime.date(date.year, date.month, 1)
-        if op in ("gt", "le"):
-            value = (value + datetime.timedelta(days=31)).replace(day=1) - datetime.timedelta(1)
-    else:
+    # "after October 2024" is after its last day, "before" before its first; so for a year
+    bound = _day(date, last=op in ("gt", "le"))
+    return None if bound is None else L.Cmp(col, op, bound)
+
+
+@specify(fragments=("between",), role="datefilter")
+def between_dates(a, col: str, start, end) -> L.Rows | None:
+    # "between March and June 2023" runs from March's first day to June's last, both kept
+    low, high = _day(start, last=False), _day(end, last=True)
+    if low is None or high is None or (start.year, start.month, start.day) == (
+            end.year, end.month, end.day):
         return None
-    return L.Cmp(col, op, value)
+    if low > high:
+        low, high = _day(end, last=False), _day(start, last=True)
+    return L.Between(col, low, high)
+
+
+def _day(date, last: bool) -> datetime.date | None:
+    """The first (or last) day of what a date mention names: a day, a month of a year or a
+    year; None for a mention with no year or no real day."""
+    if not date.year:
+        return None
+    month = date.month or (12 if last else 1)
+    try:
+        if date.month and date.day:
+            return datetime.date(date.year, month, date.day)
+        if not last:
+            return datetime.date(date.year, month, 1)
+        following = datetime.date(date.year + month // 12, month % 12 + 1, 1)
+        return following - datetime.timedelta(days=1)
+    except ValueError:
+        return None
 
 
 @specify(fragments=("between",), role="filter", compares_numbers=True)

@@ -96,6 +96,17 @@ CASES = [
      _count((O_YEAR == 2024) & (OD.map(lambda d: d.month) == 3))),
     # a day and month without a year: the year of the table's latest date (2024 here)
     ("orders", "how many orders after 12 june", _count(OD > _date("2024-06-12"))),
+    # a range of dates, each end kept ("between" and "from … to" include both ends)
+    ("orders", "how many orders between 3 march 2024 and 24 march 2024",
+     _count((OD >= _date("2024-03-03")) & (OD <= _date("2024-03-24")))),
+    ("orders", "how many harbour orders were placed between 10 january and 20 april",
+     _count((O.depot == "Harbour") & (OD >= _date("2024-01-10")) & (OD <= _date("2024-04-20")))),
+    ("orders", "how many orders from 1 may 2023 to 31 july 2023",
+     _count((OD >= _date("2023-05-01")) & (OD <= _date("2023-07-31")))),
+    ("orders", "total amount of orders between march 2023 and june 2023",
+     [int(O.amount[(OD >= _date("2023-03-01")) & (OD <= _date("2023-06-30"))].sum())]),
+    ("readings", "average temperature between 5 february and 20 march",
+     [R.temperature[(RD >= _date("2024-02-05")) & (RD <= _date("2024-03-20"))].mean()]),
     # 3. "not" takes only the condition it stands next to
     ("orders", "in 2023, how many orders weren't paid by card",
      _count((O_YEAR == 2023) & (O.payment != "card"))),
