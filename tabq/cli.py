@@ -4,16 +4,17 @@ from __future__ import annotations
 
 import argparse
 import dataclasses
-import json
-import math
+import fnmatch
 import os
 import sys
 import warnings
+from pathlib import Path
 
 from . import api
 from .errors import InputError, TabqError
-from .output import as_json, format_result
-from .safeio import printable, reason
+from .output import BY_SUFFIX, FORMATS, dump_json, render
+from .files import has_glob, is_table_name
+from .safeio import atomic_write, printable, reason
 from .table import ReadChoices
 
 EXAMPLES = {
@@ -50,7 +51,7 @@ def _parser() -> argparse.ArgumentParser:
                      "folder; the untaught model until something is taught)")
     ask.add_argument("--top", type=int, default=3, metavar="K",
                      help="how many distinct answers to show (default 3)")
-    ask.add_argument("--json", action="store_true", help="print JSON instead of text")
+    _answer_options(ask)
     ask.set_defaults(run=_ask)
 
     teach = commands.add_parser(
@@ -108,6 +109,23 @@ def _parser() -> argparse.ArgumentParser:
                     help="the model folder to teach (default: your per-user tabq folder)")
     ui.set_defaults(run=_ui)
     return parser
+
+
+def _answer_options(command: argparse.ArgumentParser) -> None:
+    """How the answer is given: its format, all of it, and where."""
+    shape = command.add_mutually_exclusive_group()
+    shape.add_argument("--format", choices=FORMATS, default=None,
+                       help="text (default; bars for a per-group answer), json (every answer "
+                       "with its SQL), or the best answer's table as ndjson, csv or markdown; "
+                       "default: from the -o file's extension, else text")
+    shape.add_argument("--json", dest="format", action="store_const", const="json",
+                       help="the same as --format json")
+    command.add_argument("--all", dest="every", action="store_true",
+                         help="every row of a long answer (text cuts it at 12, and at most "
+                         "1000 rows are kept while ranking)")
+    command.add_argument("-o", "--output", metavar="FILE",
+                         help="write the answer to FILE instead of standard output (never "
+                         "over the table asked)")
 
 
 def _reading_options(command: argparse.ArgumentParser) -> None:
@@ -329,32 +347,76 @@ def _one_line(text: str) -> str:
 
 
 def _dump(data: object) -> str:
-    """Strict JSON: a number JSON cannot hold (NaN, an infinity) is written as null, never as
-    the bare NaN or Infinity that JSON readers refuse."""
-    return json.dumps(_finite(data), ensure_ascii=False, indent=2, allow_nan=False)
-
-
-def _finite(data: object) -> object:
-    if isinstance(data, float) and not math.isfinite(data):
-        return None
-    if isinstance(data, dict):
-        return {k: _finite(v) for k, v in data.items()}
-    if isinstance(data, (list, tuple)):
-        return [_finite(v) for v in data]
-    return data
+    return dump_json(data)
 
 
 def _ask(args: argparse.Namespace) -> int:
+    output = args.output if args.output not in (None, "-") else None
+    fmt = args.format or _format_of(output)
+    if output:
+        refuse_input_as_output(Path(output), args.table)   # before the work, and again after
     # no --model: the default folder, as `tabq.open` and `tabq teach` use
     table = api.open(args.table, model=args.model, table=args.table_name,
                      choices=_choices(args))
     result = table.ask(args.question)
-    top = max(1, args.top)
-    if args.json:
-        print(_dump(as_json(result, top)))
-    else:
-        print(format_result(result, top))
+    colour = not output and fmt == "text" and _colour_wanted(sys.stdout)
+    text = render(result, fmt, max(1, args.top), args.every, colour)
+    if fmt in ("ndjson", "csv") and result.unsure:    # the file cannot say it; the person can
+        print(_one_line(f"tabq: note: unsure answer ({result.unsure_reason}); its SQL: "
+                        f"{result.sql}"), file=sys.stderr)
+    if not output:
+        sys.stdout.write(text)
+        return 0
+    refuse_input_as_output(Path(output), args.table, table.table.report)
+    atomic_write(Path(output), text)
+    print(printable(f"wrote the answer ({fmt}) to {output}"), file=sys.stderr)
     return 0
+
+
+def _format_of(output: str | None) -> str:
+    """The format a file's extension asks for; text for standard output or another name."""
+    return BY_SUFFIX.get(Path(output).suffix.lower(), "text") if output else "text"
+
+
+def _colour_wanted(stream) -> bool:
+    """Colours only on a terminal, and never when NO_COLOR is set to anything (no-color.org)."""
+    isatty = getattr(stream, "isatty", None)
+    return bool(isatty and isatty()) and not os.environ.get("NO_COLOR")
+
+
+def refuse_input_as_output(output: Path, given: str, report=None) -> None:
+    """Refuse an output file that is the table asked (the same file by any name or link), one
+    of the files it was read from, or a file that would be read as part of it next time (a
+    table file in the folder asked, or a name the pattern asked matches)."""
+    if output.is_dir():
+        raise InputError(f"-o {_shown(output)}: is a folder; name a file")
+    sources = [Path(given)] if given != "-" else []
+    folder = Path(given) if given != "-" and Path(given).is_dir() else None
+    if report is not None and report.sources and folder is not None:
+        sources += [folder / name for name in report.sources]
+    for source in sources:
+        if _same_file(output, source):
+            raise InputError(f"-o {_shown(output)}: is the table asked; tabq never writes "
+                             "over its input")
+    if folder is not None and _same_file(output.absolute().parent, folder) \
+            and is_table_name(output):
+        raise InputError(f"-o {_shown(output)}: is inside the folder asked and would be read "
+                         "as part of the table; write it elsewhere")
+    if given != "-" and not os.path.lexists(given) and has_glob(given) \
+            and fnmatch.fnmatch(str(output.absolute()), str(Path(given).absolute())):
+        raise InputError(f"-o {_shown(output)}: matches the pattern asked and would be read "
+                         "as part of the table; write it elsewhere")
+
+
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except OSError:        # one of them does not exist (yet): not the same file
+        return False
+
+
+def _shown(path: Path) -> str:
+    return printable(str(path))
 
 
 def _teach(args: argparse.Namespace) -> int:

@@ -1,32 +1,97 @@
-"""How an answer is shown: a `pipeline.Result` as text for a person or as JSON for a program.
+"""How an answer is shown: a `pipeline.Result` as text for a person (a bar chart for a per-group
+answer), as JSON for a program, or as the answer's own table in JSON lines, CSV or Markdown for a
+spreadsheet, a script or a report.
 
 Used by `tabq ask` and `tabq demo`; kept apart from cli.py so that nothing imports the CLI back.
 """
 
 from __future__ import annotations
 
+import csv
+import io
+import json
 import math
 
+from .errors import QueryError
 from .pipeline import Reading, Result
 from .table import ReadReport, Table
+from .tabular import AnswerTable, answer_table
 
 READ_WIDTH = 100         # characters of the "Read:" line under an answer; the rest is in --json
 MORE = "… (see --json)"
+SHOWN = 12               # values (or groups) of the best answer shown in text without --all
+CHART_WIDTH = 32         # cells of the longest bar
+FORMATS = ("text", "json", "ndjson", "csv", "markdown")
+BY_SUFFIX = {".txt": "text", ".json": "json", ".ndjson": "ndjson", ".jsonl": "ndjson",
+             ".csv": "csv", ".md": "markdown", ".markdown": "markdown"}
 DELIMITERS = {",": "comma", ";": "semicolon", "\t": "tab", "|": "bar", " ": "space"}
 
 
-def as_json(result: Result, top: int) -> dict:
-    """The question, its `top` distinct answers with their SQL (in order of probability), how
-    sure tabq is and why not, and how the table was read."""
-    return {"question": result.question,
-            "answers": [{"answer": [list(v) if isinstance(v, tuple) else v for v in r.answer],
-                         "sql": r.sql, "paraphrase": r.paraphrase,
-                         "score": round(r.score, 4), "probability": round(r.probability, 4),
-                         **({"error": r.error} if r.error else {})}
-                        for r in result.readings[:top]],
+def as_json(result: Result, top: int, every: bool = False) -> dict:
+    """The question, its `top` distinct answers with their SQL and column names (in order of
+    probability), how sure tabq is and why not, and how the table was read. With `every`, the
+    best answer holds all its rows, not only those kept while ranking."""
+    answers = []
+    for i, r in enumerate(result.readings[:top]):
+        shown = answer_table(r, result.table, every and i == 0)
+        answers.append({
+            "answer": [list(row) if r.is_table else row[0] for row in shown.rows],
+            "columns": list(shown.columns), "sql": r.sql, "paraphrase": r.paraphrase,
+            "score": round(r.score, 4), "probability": round(r.probability, 4),
+            **({"error": r.error} if r.error else {})})
+    return {"question": result.question, "answers": answers,
             "confidence": round(result.confidence, 4), "unsure": result.unsure,
             "unsure_reason": result.unsure_reason, "notes": result.notes,
             "read": read_json(result.table)}
+
+
+def best_table(result: Result, every: bool = False) -> AnswerTable:
+    """The best answer's rows under their names; an error when there is none to give."""
+    best = result.best
+    if best is None:
+        raise QueryError("no reading of this question fits the table")
+    if best.error:
+        raise QueryError(f"the best reading's query failed: {best.error}")
+    return answer_table(best, result.table, every)
+
+
+def as_ndjson(shown: AnswerTable) -> str:
+    """One JSON object a row, keyed by column name (strict JSON: NaN is null)."""
+    return "".join(json.dumps(_finite(row), ensure_ascii=False, allow_nan=False) + "\n"
+                   for row in shown.records())
+
+
+def as_csv(shown: AnswerTable) -> str:
+    """A header line, then a line a row; a missing value is an empty cell."""
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\n")
+    writer.writerow(shown.columns)
+    writer.writerows([["" if v is None else v for v in row] for row in shown.rows])
+    return out.getvalue()
+
+
+def as_markdown(result: Result, shown: AnswerTable) -> str:
+    """The answer as a Markdown table, then its reading, its SQL and, if any, why to doubt it:
+    ready to paste into a report."""
+    numeric = [all(isinstance(row[i], (int, float)) or row[i] is None for row in shown.rows)
+               and bool(shown.rows) for i in range(len(shown.columns))]
+    lines = ["| " + " | ".join(_md_cell(c) for c in shown.columns) + " |",
+             "|" + "|".join("---:" if n else "---" for n in numeric) + "|"]
+    lines += ["| " + " | ".join(_md_cell(v) for v in row) + " |" for row in shown.rows]
+    lines += ["", f"*Question:* {_md_text(result.question)}  ",
+              f"*Reading:* {_md_text(result.paraphrase or '')}  ",
+              f"*Sureness:* {result.confidence:.0%}"
+              + (f" (unsure: {_md_text(result.unsure_reason)})" if result.unsure else ""), "",
+              "```sql", result.sql or "", "```"]
+    return "\n".join(lines) + "\n"
+
+
+def _md_cell(value) -> str:
+    return "" if value is None else _md_text(str(value)).replace("|", "\\|")
+
+
+def _md_text(text: str) -> str:
+    return " ".join(text.split()).replace("<", "&lt;")
 
 
 def read_json(table: Table | None) -> dict | None:
@@ -108,14 +173,18 @@ def format_answer(reading: Reading, limit: int = 12) -> str:
     return ", ".join(shown) + (f" … and {more} more" if more > 0 else "")
 
 
-def format_result(result: Result, top: int = 3) -> str:
-    """The answer, its SQL, its reading and how sure the model is; then the runners-up."""
+def format_result(result: Result, top: int = 3, every: bool = False,
+                  colour: bool = False) -> str:
+    """The answer, its SQL, its reading and how sure the model is; then the runners-up. A
+    per-group answer is drawn as bars; a long answer is cut at SHOWN values unless `every`.
+    `colour` adds terminal colours to the bars (the CLI asks for them on a terminal, without
+    NO_COLOR)."""
     best = result.best
     read = read_line(result.read)     # under the answer: a row left out can change it
     if best is None:
         return "\n".join(["No reading of this question fits the table."] + ([read] if read else []))
     sure = f"{best.probability:.0%} of the model's belief"
-    lines = [f"Answer:   {format_answer(best)}"] + ([read] if read else [])
+    lines = _best_lines(result, best, every, colour) + ([read] if read else [])
     lines += [f"Reading:  {best.paraphrase}",
               f"SQL:      {best.sql}",
               f"Sureness: {sure}" + (f"  — unsure: {result.unsure_reason}. Check the SQL "
@@ -128,3 +197,78 @@ def format_result(result: Result, top: int = 3) -> str:
             lines.append(f"  {format_answer(reading, 6)}  ({reading.probability:.0%}) — "
                          f"{reading.paraphrase}")
     return "\n".join(lines)
+
+
+def _best_lines(result: Result, best: Reading, every: bool, colour: bool) -> list[str]:
+    """The "Answer:" line; for a per-group answer, a bar chart under it."""
+    if best.error or not best.answer:
+        return [f"Answer:   {format_answer(best)}"]
+    shown = answer_table(best, result.table, every)
+    if not best.is_table:
+        values = [row[0] for row in shown.rows]
+        whole = Reading(best.form, best.sql, best.paraphrase, values, best.score, {})
+        line = format_answer(whole, len(values) if every else SHOWN)
+        return [f"Answer:   {line}" + (" (--all shows every one)" if " more" in line
+                                      and not every else "")]
+    rows = shown.rows if every else shown.rows[:SHOWN]
+    more = len(shown.rows) - len(rows)
+    head = (f"Answer:   a table of {len(shown.rows)}{'' if shown.complete else '+'} rows "
+            f"({', '.join(shown.columns)})")
+    lines = [head] + ["  " + line for line in bar_chart_lines(shown.columns, rows, colour)]
+    if more > 0:
+        lines.append(f"  … and {more} more rows (--all shows every one)")
+    return lines
+
+
+def bar_chart_lines(columns: tuple[str, ...], rows, colour: bool = False,
+                    width: int = CHART_WIDTH) -> list[str]:
+    """A per-group answer as a table with a bar per row, scaled to the largest value: the key
+    columns, the value, the bar. Laid out by rich; coloured only when `colour`."""
+    from rich.console import Console
+    from rich.table import Table as RichTable
+    from rich.text import Text
+
+    from .ui.chart import bar_rows
+    table = RichTable(box=None, pad_edge=False, show_header=True,
+                      header_style="bold cyan" if colour else "")
+    table.add_column(" · ".join(columns[:-1]))
+    table.add_column(columns[-1], justify="right")
+    table.add_column("")
+    for label, bar, value in bar_rows([tuple(r) for r in rows], width):
+        table.add_row(label, value, Text(bar, style="yellow" if colour else ""))
+    out = io.StringIO()
+    console = Console(file=out, width=200, force_terminal=colour, no_color=not colour,
+                      color_system="standard" if colour else None, highlight=False)
+    console.print(table)
+    return [line.rstrip() for line in out.getvalue().splitlines()]
+
+
+def render(result: Result, fmt: str, top: int = 3, every: bool = False,
+           colour: bool = False) -> str:
+    """The result in one of FORMATS, as the text to print or write (ending in a newline)."""
+    if fmt == "text":
+        return format_result(result, top, every, colour) + "\n"
+    if fmt == "json":
+        return dump_json(as_json(result, top, every)) + "\n"
+    shown = best_table(result, every)
+    if fmt == "ndjson":
+        return as_ndjson(shown)
+    if fmt == "csv":
+        return as_csv(shown)
+    return as_markdown(result, shown)
+
+
+def dump_json(data: object) -> str:
+    """Strict JSON: a number JSON cannot hold (NaN, an infinity) is written as null, never as
+    the bare NaN or Infinity that JSON readers refuse."""
+    return json.dumps(_finite(data), ensure_ascii=False, indent=2, allow_nan=False)
+
+
+def _finite(data: object) -> object:
+    if isinstance(data, float) and not math.isfinite(data):
+        return None
+    if isinstance(data, dict):
+        return {k: _finite(v) for k, v in data.items()}
+    if isinstance(data, (list, tuple)):
+        return [_finite(v) for v in data]
+    return data
