@@ -253,11 +253,8 @@ def _learning_options(parser: argparse.ArgumentParser) -> None:
 
 
 def _version() -> str:
-    from importlib.metadata import PackageNotFoundError, version
-    try:
-        return version("tabq")
-    except PackageNotFoundError:
-        return "unknown"
+    from . import __version__
+    return __version__
 
 
 def main(argv: list[str] | None = None) -> int:

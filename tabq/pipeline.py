@@ -18,6 +18,7 @@ from .features import ANSWER_FEATURES, answer_score_bound
 from .table import ReadReport, Table
 from .model import Model
 from .sql import render
+from .tabular import label
 
 EXECUTE = 60            # candidates executed per question, best first by the features that need no answer
 QUESTION_SECONDS = 20.0  # one whole question, analysis included; past it, the best so far, flagged
@@ -25,7 +26,6 @@ BATCH = 20              # candidates executed between two checks of whether the 
 SETTLED = 3             # distinct readings that must come out exactly as if all were executed
 MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
 MAX_WORDS = 3           # question words no reading uses, named in the unsure reason
-MAX_LABEL = 80          # characters of a header shown in a reading (a header can be a whole cell)
 
 
 @dataclass
@@ -88,6 +88,27 @@ class Result:
     def unsure(self) -> bool:
         return self.unsure_reason is not None
 
+    def to_pandas(self):
+        """The best answer, every row of it, as a pandas DataFrame with named columns (pandas
+        is optional: without it, a `frames.MissingPackageError` says so)."""
+        from .frames import to_pandas
+        return to_pandas(self)
+
+    def to_arrow(self):
+        """The best answer, every row of it, as a pyarrow Table with named columns."""
+        from .frames import to_arrow
+        return to_arrow(self)
+
+    def to_polars(self):
+        """The best answer, every row of it, as a polars DataFrame with named columns."""
+        from .frames import to_polars
+        return to_polars(self)
+
+    def _repr_html_(self) -> str:
+        """A notebook's display: the answer, its reading, its SQL and the other readings."""
+        from .notebook import result_html
+        return result_html(self)
+
 
 class OpenTable:
     """A loaded table and a model, ready for questions. Load once, ask many times."""
@@ -96,9 +117,7 @@ class OpenTable:
         self.table, self.model = table, model
 
     def label(self, name: str) -> str:
-        col = self.table.column(name)
-        header = col.header if len(col.header) <= MAX_LABEL else col.header[:MAX_LABEL - 1] + "…"
-        return header + (f" ({col.view})" if col.view else "")
+        return label(self.table, name)
 
     def analyse(self, question: str, deadline: float | None = None) -> Analysis:
         return analyse(question, self.table, deadline)
