@@ -27,6 +27,7 @@ EXAMPLES = {
     "lexicon show": "tabq lexicon show --model team-model --word refunds",
     "lexicon diff": "tabq lexicon diff team-words-v1.json team-words-v2.json",
     "ui": "tabq ui sample_tables/repair_jobs.csv --model team-model",
+    "completion": 'eval "$(tabq completion bash)"',
 }
 
 
@@ -108,6 +109,17 @@ def _parser() -> argparse.ArgumentParser:
     ui.add_argument("--model", metavar="DIR",
                     help="the model folder to teach (default: your per-user tabq folder)")
     ui.set_defaults(run=_ui)
+
+    from .completion import SHELLS
+    complete = commands.add_parser(
+        "completion", help="print a shell completion script (bash, zsh or fish)",
+        description="Print a completion script for tabq's commands and options, generated "
+        "from this parser. bash: eval \"$(tabq completion bash)\" in ~/.bashrc; zsh: the same "
+        "after compinit in ~/.zshrc; fish: tabq completion fish > "
+        "~/.config/fish/completions/tabq.fish",
+        epilog=f"example: {EXAMPLES['completion']}")
+    complete.add_argument("shell", choices=SHELLS, help="the shell to complete in")
+    complete.set_defaults(run=_completion)
     return parser
 
 
@@ -489,6 +501,12 @@ def _eval(args: argparse.Namespace) -> int:
 def _ui(args: argparse.Namespace) -> int:
     from .ui import run
     run(args.table, args.model, args.table_name, _choices(args))
+    return 0
+
+
+def _completion(args: argparse.Namespace) -> int:
+    from .completion import script
+    sys.stdout.write(script(_parser(), args.shell))
     return 0
 
 
