@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import contextlib
 import dataclasses
 import fnmatch
 import os
@@ -12,6 +13,7 @@ from pathlib import Path
 
 from . import api
 from .errors import InputError, TabqError
+from .progress import reading_label, working
 from .output import BY_SUFFIX, FORMATS, dump_json, render
 from .files import has_glob, is_table_name
 from .safeio import atomic_write, printable, reason
@@ -365,9 +367,11 @@ def _ask(args: argparse.Namespace) -> int:
     if output:
         refuse_input_as_output(Path(output), args.table)   # before the work, and again after
     # no --model: the default folder, as `tabq.open` and `tabq teach` use
-    table = api.open(args.table, model=args.model, table=args.table_name,
-                     choices=_choices(args))
-    result = table.ask(args.question)
+    with working(reading_label(args.table)):
+        table = api.open(args.table, model=args.model, table=args.table_name,
+                         choices=_choices(args))
+    with working("weighing readings of the question"):
+        result = table.ask(args.question)
     colour = not output and fmt == "text" and _colour_wanted(sys.stdout)
     text = render(result, fmt, max(1, args.top), args.every, colour)
     if fmt in ("ndjson", "csv") and result.unsure:    # the file cannot say it; the person can
@@ -433,11 +437,13 @@ def _teach(args: argparse.Namespace) -> int:
     from .store import ModelFolder
     from .teaching import read_examples, teach
     choices = _choices(args)
-    load_table(args.table, args.table_name, choices)  # a bad table is refused before any logging
+    with working(reading_label(args.table)):   # a bad table is refused before any logging
+        load_table(args.table, args.table_name, choices)
     jobs = read_examples(args.examples, table=args.table, table_name=args.table_name)
     jobs = [dataclasses.replace(job, reading=choices) for job in jobs]
     folder = ModelFolder(args.model)
-    report = teach(folder, jobs, args.objective, args.epochs, args.workers)
+    with _unless_counted(jobs, f"teaching {len(jobs)} confirmations"):
+        report = teach(folder, jobs, args.objective, args.epochs, args.workers)
     print(f"taught {report.taught} confirmations ({report.reachable} with a reading that gives "
           f"the answer; {report.replayed} earlier ones replayed) into {folder.path}")
     for skipped in report.skipped:
@@ -460,16 +466,18 @@ def _eval(args: argparse.Namespace) -> int:
     trained = None
     if train_jobs:
         start = _time.perf_counter()
-        if folder:      # taught like any confirmation: logged, so the log still rebuilds it
-            report = teach(folder, train_jobs, args.objective, args.epochs, args.workers)
-            model = folder.load()
-        else:
-            model, report, _ = learn_from(model, train_jobs, args.objective, args.epochs,
-                                          args.workers, fresh=train_jobs)
+        with _unless_counted(train_jobs, f"learning from {len(train_jobs)} examples"):
+            if folder:      # taught like any confirmation: logged, so the log still rebuilds it
+                report = teach(folder, train_jobs, args.objective, args.epochs, args.workers)
+                model = folder.load()
+            else:
+                model, report, _ = learn_from(model, train_jobs, args.objective, args.epochs,
+                                              args.workers, fresh=train_jobs)
         trained = {"examples": report.taught, "oracle": report.reachable / max(report.taught, 1),
                    "not_simplest": report.not_simplest,
                    "seconds": round(_time.perf_counter() - start, 1)}
-    result = evaluate(model, jobs, args.workers)
+    with _unless_counted(jobs, f"answering {len(jobs)} examples"):
+        result = evaluate(model, jobs, args.workers)
     if args.predictions:
         write_predictions(args.predictions, jobs, result)
     summary = {"examples": result.examples, "accuracy": round(result.accuracy, 4),
@@ -496,6 +504,13 @@ def _eval(args: argparse.Namespace) -> int:
     for kind, (right, n) in result.by_kind.items():
         print(f"  {kind:18s} {right:4d}/{n:<4d} {right / n:.0%}")
     return 0
+
+
+def _unless_counted(jobs: list, label: str):
+    """A progress line for a few questions; many get the counting bar of `teaching.pool`
+    (from COUNTED_FROM on), and two lines drawn at once would garble each other."""
+    from .teaching.pool import COUNTED_FROM
+    return working(label) if len(jobs) < COUNTED_FROM else contextlib.nullcontext()
 
 
 def _ui(args: argparse.Namespace) -> int:

@@ -22,9 +22,12 @@ from ..errors import TabqError
 from ..learn import Example, candidates
 from ..load import load_table
 from ..model import Model
+from ..progress import drawing
 from .examples import Job
 
 _WORKER_MODEL: Model | None = None
+
+COUNTED_FROM = 20      # questions from which a search shows a counting bar (fewer: a line)
 
 
 def _init(weights: dict[str, float]) -> None:
@@ -100,8 +103,8 @@ def run_parallel(fn: Callable, jobs: list[Job], model: Model, execute: int, labe
     groups = _by_table(jobs)
     results: dict[str, object] = {}
     bar = tqdm(total=len(jobs), desc=label, unit="q", file=sys.stderr,
-               disable=len(jobs) < 20 or not sys.stderr.isatty() and os.environ.get(
-                   "TABQ_PROGRESS") != "1")
+               disable=len(jobs) < COUNTED_FROM or drawing() or not sys.stderr.isatty()
+               and os.environ.get("TABQ_PROGRESS") != "1")
     if workers <= 1 or len(groups) <= 1:
         _init(model.as_dict())
         for group in groups:
