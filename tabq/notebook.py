@@ -24,7 +24,7 @@ def result_html(result) -> str:
         return _box("<p>No reading of this question fits the table.</p>")
     parts = [f"<div style='{MUTED}'>Q: {escape(result.question)}</div>",
              _answer_html(result, best),
-             f"<p><b>Reading:</b> {escape(best.paraphrase)}<br>"
+             f"<p><b>Reading:</b> {escape(best.paraphrase)}<br/>"
              f"<b>Sureness:</b> {best.probability:.0%}"
              + (f" — <span style='color:#b45309'>unsure: {escape(result.unsure_reason)}</span>"
                 if result.unsure else "") + "</p>",

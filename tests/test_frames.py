@@ -6,6 +6,7 @@ import sys
 from html import escape
 from html.parser import HTMLParser
 from importlib.metadata import version
+from xml.etree import ElementTree
 
 import duckdb
 import pandas as pd
@@ -129,6 +130,7 @@ def test_the_notebook_display_shows_the_answer_reading_sql_and_other_readings(pe
     text = "".join(parsed.text)
     assert result.sql in text and "Other readings" in text and "Biscoe" in text
     assert "table" in parsed.tags and "script" not in parsed.tags
+    ElementTree.fromstring(html)     # well-formed XHTML too (docs/notebook.svg embeds it)
 
 
 def test_the_notebook_display_escapes_what_comes_from_the_data():
