@@ -381,7 +381,10 @@ def _ask(args: argparse.Namespace) -> int:
         sys.stdout.write(text)
         return 0
     refuse_input_as_output(Path(output), args.table, table.table.report)
-    atomic_write(Path(output), text)
+    try:
+        atomic_write(Path(output), text)
+    except OSError as err:     # named as the person named it, not by the temporary file
+        raise TabqError(f"-o {_shown(Path(output))}: cannot write it ({reason(err)})") from None
     print(printable(f"wrote the answer ({fmt}) to {output}"), file=sys.stderr)
     return 0
 
@@ -403,6 +406,9 @@ def refuse_input_as_output(output: Path, given: str, report=None) -> None:
     table file in the folder asked, or a name the pattern asked matches)."""
     if output.is_dir():
         raise InputError(f"-o {_shown(output)}: is a folder; name a file")
+    if not output.absolute().parent.is_dir():
+        raise InputError(f"-o {_shown(output)}: its folder {_shown(output.absolute().parent)} "
+                         "does not exist")
     sources = [Path(given)] if given != "-" else []
     folder = Path(given) if given != "-" and Path(given).is_dir() else None
     if report is not None and report.sources and folder is not None:

@@ -8,6 +8,7 @@ import hashlib
 import io
 import json
 import os
+from pathlib import Path
 
 import pandas as pd
 import pytest
@@ -157,3 +158,14 @@ def test_a_folder_or_a_bad_format_is_one_line(capsys, penguins_csv, tmp_path):
     with pytest.raises(SystemExit) as stop:
         ask(capsys, penguins_csv, PER_ISLAND, "--format", "xml")
     assert stop.value.code == 2
+
+
+def test_an_output_that_cannot_be_written_is_named_as_given(capsys, penguins_csv, tmp_path):
+    code, _, err = ask(capsys, penguins_csv, PER_ISLAND, "-o", tmp_path / "no" / "such.csv")
+    assert code == 2 and err.count("\n") == 1 and "does not exist" in err
+    if not Path("/proc/self").is_dir():
+        pytest.skip("needs Linux's /proc, a folder where no file can be made, even by root")
+    target = Path("/proc/tabq-answer.csv")
+    code, _, err = ask(capsys, penguins_csv, PER_ISLAND, "-o", target)
+    assert code == 1 and err.startswith(f"tabq: -o {target}: cannot write it")
+    assert ".tmp-" not in err and err.count("\n") == 1
