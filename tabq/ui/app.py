@@ -8,6 +8,7 @@ the one last asked is dropped.
 from __future__ import annotations
 
 import threading
+import time
 from pathlib import Path
 
 from rich.text import Text
@@ -25,6 +26,9 @@ from .learned import entries
 from .session import Comparison, Session, parse_answer, preview
 from .widgets import SHOWN, AnswerList, AnswerPrompt, CompareScreen, ReadingPanel, TablePicker
 from .widgets import HEADER_MOST, answer_text, read_summary, read_text, short
+
+BUSY_AFTER = 1.0         # seconds a slow step runs before its status line counts them
+BUSY_TICK = 0.5          # seconds between two counts
 
 
 class TabqApp(App):
@@ -52,6 +56,7 @@ class TabqApp(App):
         self.result: pipeline.Result | None = None
         self.alikes: list[list[pipeline.Reading]] = []
         self.asked = 0            # number of the latest question; older results are dropped
+        self.status: tuple[str, str, float | None] = ("", "#8a94a0", None)   # text, colour, busy since
 
     # ── layout ─────────────────────────────────────────────────────────────────────────────
     def compose(self) -> ComposeResult:
@@ -82,6 +87,8 @@ class TabqApp(App):
     def on_mount(self) -> None:
         self._q("#question", Input).focus()
         self._q(ReadingPanel).show(None)
+        self.set_interval(BUSY_TICK, self._tick)
+        self.say(f"loading {Path(self.source[0]).name}…", busy=True)
         self.load()
 
     def _q(self, selector, expect=None):
@@ -90,10 +97,18 @@ class TabqApp(App):
         return base.query_one(selector, expect) if expect else base.query_one(selector)
 
     # ── messages in the status line ─────────────────────────────────────────────────────────
-    def say(self, text: str, tone: str = "info") -> None:
+    def say(self, text: str, tone: str = "info", busy: bool = False) -> None:
+        """A message in the status line; a `busy` one (a slow step under way) counts its
+        seconds once it has run past BUSY_AFTER, until the next message replaces it."""
         colour = {"info": "#8a94a0", "good": "#7fc97f", "warn": "#c9a25a",
                   "bad": "#e0685f"}[tone]
+        self.status = (text, colour, time.monotonic() if busy else None)
         self._q("#status", Static).update(Text(text, style=colour))
+
+    def _tick(self) -> None:
+        text, colour, since = self.status
+        if since is not None and (seconds := time.monotonic() - since) >= BUSY_AFTER:
+            self._q("#status", Static).update(Text(f"{text} {seconds:.0f} s", style=colour))
 
     def fail(self, err: BaseException) -> None:
         if isinstance(err, TabqError):
@@ -129,6 +144,7 @@ class TabqApp(App):
         """Several tables or sheets and none named: ask which, then load it."""
         path = self.source[0]
         self._bar(f"{Path(path).name}  (choose a table)")
+        self.say(f"{Path(path).name} holds several tables: choose one.")
 
         def chosen(name: str | None) -> None:
             if name is None:
@@ -138,6 +154,7 @@ class TabqApp(App):
                 return
             self.source = (path, self.source[1], name)
             self._bar(f"{Path(path).name}  loading {name}…")
+            self.say(f"loading {name}…", busy=True)
             self.load()
 
         self.push_screen(TablePicker(Path(path).name, names), chosen)
@@ -154,6 +171,8 @@ class TabqApp(App):
                   + Text(f"  ·  model {s.folder.path}"))
         if not self.result:
             self.say("Type a question and press enter.")
+        elif self.status[2] is not None:     # loading is over: stop counting its seconds
+            self.say(self.status[0].removesuffix("…"))
         self._fill_rows()
         self._refresh_words()
 
@@ -189,7 +208,7 @@ class TabqApp(App):
             self.say(self.not_open, "warn")
             return
         self.asked += 1
-        self.say(f"asking: {question}")
+        self.say(f"asking: {question}", busy=True)
         self.ask(question, self.asked)
 
     @work(thread=True, exclusive=True, group="ask")
@@ -254,7 +273,7 @@ class TabqApp(App):
                 self.say("An empty or failed reading cannot be confirmed: press n and type "
                          "the right answer.", "warn")
                 return
-            self.say("learning…")
+            self.say("learning…", busy=True)
             self.teach(self.result.question, reading.answer)
         elif event.action == "none":
             question = self.result.question
@@ -264,7 +283,7 @@ class TabqApp(App):
             if len(self.alikes[event.index]) < 2:
                 self.say("Only one reading gives this answer: nothing to compare.", "warn")
                 return
-            self.say("looking for rows where the readings differ…")
+            self.say("looking for rows where the readings differ…", busy=True)
             self.compare(self.result.question, self.alikes[event.index])
 
     @work(thread=True, group="teach")
@@ -330,7 +349,7 @@ class TabqApp(App):
             if index is None:
                 self.say("Nothing was taught.")
                 return
-            self.say("learning the meant reading…")
+            self.say("learning the meant reading…", busy=True)
             self.pick(question, comparison, index)
         self.push_screen(CompareScreen(comparison, answer), picked)
 
@@ -348,7 +367,7 @@ class TabqApp(App):
         if not self.session or not self.session.taught:
             self.say("Nothing to take back in this session.", "warn")
             return
-        self.say("taking back the last confirmation…")
+        self.say("taking back the last confirmation…", busy=True)
         self.undo()
 
     @work(thread=True, group="teach")
