@@ -12,15 +12,16 @@ import datetime
 import re
 import time
 from collections import Counter, defaultdict
-from dataclasses import dataclass, field, replace
+from dataclasses import astuple, dataclass, field, replace
 
 from rapidfuzz import fuzz
 
 from .errors import QueryError, QuestionError
-from .table import ROW, Column, Table
+from .table import ROW, Column, Table, ident
 from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS
 from .rules import OPERATORS
-from .text import DateMention, Words, is_word, normalise, read_question, split_words, stem
+from .text import (MONTHS, DateMention, Words, is_word, normalise, read_question, split_words,
+                   stem)
 
 MAX_QUESTION = 2000      # characters; longer questions are cut, and the result says so
 MAX_NGRAM = 6
@@ -69,6 +70,7 @@ class Analysis:
     truncated: bool = False
     spans: dict = field(default_factory=dict)   # column name → span of its mention
     cache: dict = field(default_factory=dict)   # per-question memo of feature dicts
+    date_parts: dict = field(default_factory=dict)   # month/day/year → its number column
 
 
 def analyse(question: str, table: Table, deadline: float | None = None) -> Analysis:
@@ -84,6 +86,7 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     col_match, spans = _column_mentions(words, table, content, atoms, deadline)
     _value_mentions(words, table, content, col_match, spans, atoms, deadline)
     _number_mentions(words, table, content, spans, atoms)
+    _date_part_mentions(words, table, atoms)
     atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content, words)
     for slot, names in OPERATORS.items():
         atoms[slot] = [Atom(slot, name) for name in names]
@@ -95,7 +98,7 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     return Analysis(words, table, dict(atoms), col_match, frozenset(content), grams,
                     qtype, _head(words, ("how many", "number of")),
                     _head(words, ("which", "what")),
-                    truncated, spans)
+                    truncated, spans, date_parts=date_parts(table))
 
 
 def _content_tokens(words: Words, table: Table) -> frozenset[int]:
@@ -105,10 +108,11 @@ def _content_tokens(words: Words, table: Table) -> frozenset[int]:
     title = {stem(w) for w in split_words(table.title.replace("_", " "))} - headers
     row_nouns = ({stem(w) for w in ROW_NOUNS} - headers) | title | ids
     cue_stems = {stem(w) for w in CUE_WORDS}
+    days = _days_as_rows(words, table)
     return frozenset(
         t.index for t in words.tokens
         if not t.stop and t.stem not in cue_stems and t.stem not in row_nouns
-        and t.text not in CUE_WORDS and is_word(t.text)
+        and t.text not in CUE_WORDS and is_word(t.text) and t.index not in days
     )
 
 
@@ -230,6 +234,10 @@ def _column_mentions(words, table, content, atoms, deadline=None):
     for col in table.columns:
         _in_time(deadline)
         found[col.name] = _match_header(_header_words(col), stems, words)
+    days = _days_as_rows(words, table)
+    for name, (_, span) in list(found.items()):
+        if span and set(range(*span)) <= days:   # "how many days": the rows, not day numbers
+            found[name] = ("none", None)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
         if quality == "synonym" and any(c == name for c, _ in values.get(
@@ -610,6 +618,140 @@ def _latest_year(table: Table) -> int | None:
     years = [int(str(col.maximum)[:4]) for col in table.columns
              if col.kind == "date" and col.maximum is not None and str(col.maximum)[:4].isdigit()]
     return max(years, default=None)
+
+
+# ── dates held as number columns ──────────────────────────────────────────────────────────────
+# A daily log may keep its dates as whole numbers: a month column (1-12), a day of the month
+# (1-31), a year. A month name is then a value of the month column ("in July": month = 7), a
+# day and month two values ("on 18 June": day = 18 and month = 6), and a date compared
+# ("before 10 June") a comparison the rule compare_month_day builds from a DATE atom with no
+# year. No date is made up from the parts: the year, when the table has none, is unknown.
+DATE_PART_HEADERS = {
+    "month": frozenset({"month", "mon", "mo", "mth", "mnth"}),
+    "day": frozenset({"day", "dy", "dd", "dom", "mday", "day month"}),
+    "year": frozenset({"year", "yr", "yyyy"}),
+}
+DATE_PART_RANGES = {"month": (1, 12), "day": (1, 31), "year": (1000, 2100)}
+_PART_FILLERS = frozenset({"num", "number", "no", "nr", "of", "the", "in"})
+# Words before a bare "may" (or "mar", "jun" …) that make it a month: "in May", "than May".
+_MONTH_LEAD = frozenset({"in", "of", "than", "before", "after", "since", "until", "till",
+                         "during", "from", "to", "through", "except", "outside", "and", "or"})
+
+
+def date_parts(table: Table) -> dict[str, str]:
+    """The number columns that hold a date's parts, by part (month, day, year): whole numbers in
+    the part's range under a header that names it ("Month", "mth", "day_of_month"). None
+    without a month column: a day or a year alone is no part of a date a question can name."""
+    if "date_parts" in table.cache:
+        return table.cache["date_parts"]
+    found: dict[str, str] = {}
+    for col in table.columns:
+        part = _date_part(col)
+        if part and part not in found:
+            found[part] = col.name
+    table.cache["date_parts"] = found = found if "month" in found else {}
+    return found
+
+
+def _date_part(col: Column) -> str | None:
+    if col.kind != "number" or not col.integer or col.view is not None or col.minimum is None:
+        return None
+    said = " ".join(w for w in split_words(header_text(col)) if w not in _PART_FILLERS)
+    for part, spellings in DATE_PART_HEADERS.items():
+        low, high = DATE_PART_RANGES[part]
+        if said in spellings and low <= col.minimum and col.maximum <= high:
+            return part
+    return None
+
+
+def _one_row_per_day(table: Table) -> bool:
+    """Whether each row is one day: its year (when a column holds it), month and day are
+    found in no other row."""
+    parts = date_parts(table)
+    if "day" not in parts:
+        return False
+    if "one_row_per_day" not in table.cache:
+        keys = ", ".join(ident(parts[p]) for p in ("year", "month", "day") if p in parts)
+        days = table.con.execute(f"SELECT count(*) FROM (SELECT DISTINCT {keys} FROM t)")
+        table.cache["one_row_per_day"] = days.fetchone()[0] == table.row_count
+    return table.cache["one_row_per_day"]
+
+
+def _days_as_rows(words: Words, table: Table) -> frozenset[int]:
+    """The words "day"/"days" that name the rows of a log kept one row a day ("how many days",
+    "the windiest day"), not its day-of-month column: all but "day of …" and "which day"."""
+    tokens = words.tokens
+    candidates = [t.index for t in tokens if t.stem == "day"]
+    if not candidates or not _one_row_per_day(table):
+        return frozenset()
+    return frozenset(i for i in candidates
+                     if not (i + 1 < len(tokens) and tokens[i + 1].text == "of")
+                     and not (i > 0 and tokens[i - 1].text in ("which", "what")))
+
+
+def _date_part_mentions(words: Words, table: Table, atoms) -> None:
+    """A month name, a day and a year said in the question, as values of the columns that
+    hold them, and a date with no year as a DATE atom that compare_month_day can compare."""
+    parts = date_parts(table)
+    if not parts:
+        return
+    for date in _month_mentions(words):
+        span = (date.start, date.end)
+        ops = _compared_by(words, date)
+        quality = "number" if ops else "exact"   # "before 10 June" is rarely "on 10 June"
+        for part, value, at in _said_parts(date, words):
+            if part in parts:
+                atoms["ENTITY"].append(Atom("ENTITY", (parts[part], value), (at, at + 1),
+                                            quality, 1))
+        if ops and not date.year:
+            atoms["DATE"].append(Atom("DATE", ComparedDate(*astuple(date), ops=ops), span,
+                                      "month_day", span[1] - span[0]))
+
+
+@dataclass(frozen=True)
+class ComparedDate(DateMention):
+    """A date said right after a comparison word ("before 10 June", "since July"), with the
+    comparisons that word asks for: compare_month_day builds only those, as the comparison
+    words float and one of them could otherwise be read twice ("after 20 August … below 18")."""
+
+    ops: tuple[str, ...] = ()
+
+
+def _compared_by(words: Words, date: DateMention) -> tuple[str, ...]:
+    """The comparisons (gt, lt, ge, le) that the one or two words before a date ask for, by the
+    prior's cues: "before" lt, "since" ge, "prior to" lt."""
+    texts = [t.text for t in words.tokens[max(0, date.start - 2):date.start]]
+    phrases = {" ".join(texts[k:]) for k in range(len(texts))}
+    return tuple(op for op in OPERATORS["CMP"]
+                 if any(CUES[f"cmp:{op}"][1].get(p, 0) >= 1.0 for p in phrases))
+
+
+def _month_mentions(words: Words) -> list[DateMention]:
+    """The question's dates that name a month, and a short month name that is also a word
+    ("may") when a preposition leads it ("in May", "than May")."""
+    dates = [d for d in words.dates if d.month]
+    taken = {i for d in words.dates for i in range(d.start, d.end)}
+    tokens = words.tokens
+    for t in tokens:
+        if t.index not in taken and t.text in MONTHS and t.index > 0 \
+                and tokens[t.index - 1].text in _MONTH_LEAD:
+            dates.append(DateMention(None, MONTHS[t.text], None, t.index, t.index + 1))
+    return dates
+
+
+def _said_parts(date: DateMention, words: Words) -> list[tuple[str, int, int]]:
+    """(part, value, token) for each part of a date mention: the month name's token, the day's
+    number, the year's."""
+    found = []
+    for i in range(date.start, date.end):
+        text = words.tokens[i].text
+        if text in MONTHS:
+            found.append(("month", date.month, i))
+        elif date.year and text == str(date.year):
+            found.append(("year", date.year, i))
+        elif date.day and re.fullmatch(rf"0?{date.day}(st|nd|rd|th)?", text):
+            found.append(("day", date.day, i))
+    return found
 
 
 def _num(value: float):

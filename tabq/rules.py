@@ -366,7 +366,8 @@ def yes_no(a, _, rows: L.Rows) -> L.Answer | None:
     return L.YesNo(rows)
 
 
-@specify(fragments=("per_group", "count"), role="key")
+# "count" twice, as a plain count has it: else "how many jobs per mechanic" counted all rows
+@specify(fragments=("per_group", "count", "count"), role="key")
 def per_group_count(a, key: str, _, rows: L.Rows, __) -> L.Answer | None:
     return None if _filters_on(rows, key) else L.GroupTable(key, "count", None, rows)
 

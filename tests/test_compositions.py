@@ -213,6 +213,22 @@ def test_average_per_year(orders, orders_df):
     check(orders, "average amount per year", expected)
 
 
+# "per" and "each" a column: one row per value of it
+@pytest.mark.parametrize("question", ["number of orders per depot", "how many orders per depot",
+                                      "how many orders did each depot have"])
+def test_count_per_group(orders, orders_df, question):
+    counts = orders_df.groupby("depot").size()
+    expected = [(k, int(v)) for k, v in counts.items()]      # pandas: groupby size
+    result = check(orders, question, expected)
+    assert result.best.is_table
+
+
+def test_total_per_group(orders, orders_df):
+    sums = orders_df.groupby("client").amount.sum()
+    expected = [(k, v) for k, v in sums.items()]            # pandas: groupby sum
+    check(orders, "total amount per client", expected)
+
+
 # ── 5. existing compositions on plain wordings ────────────────────────────────────────────────
 def test_distinct_values_where_another_column_is_missing(orders, orders_df):
     expected = sorted(orders_df[orders_df.driver.isna()].depot.unique())   # pandas: isna mask
