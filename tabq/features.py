@@ -19,7 +19,7 @@ from dataclasses import dataclass
 from . import featurenames
 from .analyse import Analysis, Atom, degree_base, header_text
 from .answers import Denotation
-from .text import split_words
+from .text import is_word, split_words, stem
 from .logic import Extreme, Neighbour, Position, walk
 from .rules import OPERATOR_FRAGMENTS, spec_of
 
@@ -124,14 +124,39 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, f"head:{step.rule}")
                 if _is_quantity(col, analysis, atom.span):   # "how many goals"
                     _add(feats, f"head:{step.rule}|number")
+            # "how many hires": the rows, not hire_days (a date filter's column is told by its
+            # dates: "orders from May to July" is order_date whatever word stands on it)
+            if atom.span and atom.span[0] == analysis.head and spec.role != "datefilter" \
+                    and not (spec.head and atom is _first_column(step)):
+                _add(feats, "head:as_condition")
             if atom.span and atom.span[0] == analysis.wh_head and spec.head:
                 _add(feats, f"whhead:{step.rule}")
+            if spec.role == "values" and not _of_wh_kind(analysis, col, atom):
+                _add(feats, "values.col:not_wh")   # "who delivered …" answered by a parcel id
             if (spec.superlative or spec.aggregating) and atom.span \
                     and _degree_word(analysis, atom.span):
                 _add(feats, f"degree_word:{spec.role}")   # "the heaviest": weight orders
                 for agg in (a.value for a in step.atoms if a.slot == "AGG"):
                     _add(feats, f"degree_word:group:{agg}")   # … one row, not a group's sum
     return feats
+
+
+def _first_column(step: Step) -> Atom | None:
+    """The rule's own column (the one a head rule answers with), before its measures."""
+    return next((atom for atom in step.atoms if atom.slot.endswith("COL")), None)
+
+
+def _of_wh_kind(analysis: Analysis, col, atom: Atom) -> bool:
+    """Whether a column can answer the question's "who", "when" or "where" (true when the
+    question has none, or the table no column of its kind): a wh-column atom, a header word
+    of its kind (prior.WH_COLUMNS), or a date for "when"."""
+    wh_cols = {a.value for a in analysis.atoms.get("ANYCOL", []) if a.quality == "wh"}
+    if analysis.qtype not in ("who", "when", "where") or not wh_cols or atom.quality == "wh":
+        return True
+    from .prior import WH_COLUMNS
+    header = {stem(w) for w in split_words(header_text(col))}
+    return col.name in wh_cols or bool(header & WH_COLUMNS[analysis.qtype]) or (
+        analysis.qtype == "when" and col.kind == "date")
 
 
 def _degree_word(analysis: Analysis, span: tuple[int, int]) -> bool:
@@ -187,6 +212,71 @@ def _answer_count_span(analysis: Analysis) -> tuple[int, int] | None:
              if tok.text in COUNT_OPENERS and (i + 1, i + 2) in numbers
              and not tokens[i + 2].stop), None)
     return analysis.cache["answer_count"]
+
+
+@node_feature
+def direction_asked(analysis: Analysis, step: Step) -> Features:
+    """A superlative's direction (the most or the least) floats on no word: only a word that
+    asks for one ("most", "cheapest", "top", any "-est") makes it more than a guess."""
+    if not spec_of(step.rule).superlative:
+        return {}
+    asked = _asked_directions(analysis)
+    for atom in step.atoms:
+        if atom.slot == "DIR" and atom.value not in asked:
+            return {"dir:unasked": 1.0}
+    return {}
+
+
+def _asked_directions(analysis: Analysis) -> frozenset[str]:
+    if "directions" not in analysis.cache:
+        from .prior import CUES, cue_key
+        grams = set(analysis.grams)
+        # net of the cues' weights: "more than 20" cancels what "more" asks for
+        asked = {way for way in ("max", "min")
+                 for fragment in (way, f"dir:{way}", f"extreme:{way}")
+                 if sum(weight for phrase, weight in CUES[fragment][1].items()
+                        if cue_key(phrase) in grams) > 0}
+        if any(t.text.endswith("est") and len(t.text) > 5 for t in analysis.words.tokens):
+            asked |= {"max", "min"}     # a superlative the cues do not list asks for one
+        analysis.cache["directions"] = frozenset(asked)
+    return analysis.cache["directions"]
+
+
+@node_feature
+def counted_noun(analysis: Analysis, step: Step) -> Features:
+    """"Which depots had more than 20 late deliveries": a number followed by the things it
+    counts, not by a unit of a measure, asks for groups with that many rows, not for groups
+    whose sum of some column passes it."""
+    frags = spec_of(step.rule).fragments
+    if "having" not in frags:
+        return {}
+    counting = _counting_numbers(analysis)
+    for atom in step.atoms:
+        if atom.slot == "NUMBER" and atom.span in counting:
+            return {"num:counts_things" if "count" in frags else "num:counted_as_amount": 1.0}
+    return {}
+
+
+def _counting_numbers(analysis: Analysis) -> frozenset[tuple[int, int]]:
+    """Spans of the numbers followed, within two words, by a plural noun that is no number
+    column's unit (the last word of its header: "20 kg", "10 days" with hire_days)."""
+    if "counting" not in analysis.cache:
+        units = {stem(words[-1]) for col in analysis.table.columns if col.kind == "number"
+                 for words in [split_words(header_text(col))] if words}
+        tokens, found = analysis.words.tokens, set()
+        for atom in analysis.atoms.get("NUMBER", []):
+            for token in tokens[atom.span[1]:atom.span[1] + 2] if atom.span else ():
+                if token.stop or not is_word(token.text):
+                    break
+                if _plural(token.text) and token.stem not in units:
+                    found.add(atom.span)
+                    break
+        analysis.cache["counting"] = frozenset(found)
+    return analysis.cache["counting"]
+
+
+def _plural(word: str) -> bool:
+    return len(word) > 3 and word.endswith("s") and not word.endswith("ss")
 
 
 @node_feature
@@ -334,6 +424,18 @@ def answer_shape(analysis: Analysis, den: Denotation) -> Features:
 
 
 @answer_feature
+def answer_count_kept(analysis: Analysis, den: Denotation) -> Features:
+    """"Which 3 clients …", "the 5 longest trips": as many answers as the number asks for."""
+    span = _answer_count_span(analysis)
+    if span is None or den.error or den.is_table or not den.values:
+        return {}
+    asked = next((a.value for a in analysis.atoms.get("NUMBER", []) if a.span == span), None)
+    if asked is None:
+        return {}
+    return {"den:answer_count" if len(den.values) == asked else "den:answer_count_off": 1.0}
+
+
+@answer_feature
 def repeated_values(analysis: Analysis, den: Denotation) -> Features:
     """A list with repeats: the different values were probably meant."""
     if den.is_table or len(den.values) < 2:
@@ -363,6 +465,6 @@ def answer_score_bound(analysis: Analysis, model) -> float:
     w = model.weight
     q = analysis.qtype
     extras = ("den:many", f"den:{q}|many", "den:huge", "den:table", "den:repeats",
-              "den:repeats_number")
+              "den:repeats_number", "den:answer_count", "den:answer_count_off")
     kinds = max(w(f"den:{q}|{kind}") for kind in ("number", "text", "date", "yesno", "table"))
     return max(w("den:empty"), w("den:null"), kinds + sum(max(0.0, w(e)) for e in extras))

@@ -26,9 +26,10 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                    "shortest": 2.0, "cheapest": 2.0, "lightest": 2.0, "earliest": 1.8,
                    "fewest": 1.5, "youngest": 1.5, "quickest": 1.6, "fastest": 1.6,
                    "coldest": 2.0, "coolest": 2.0, "lowest point": 1.0}),
+    # ("record" is no cue of a maximum: its stem is also "recorded", and "records" the rows)
     "max": (-1.8, {"maximum": 2.6, "highest": 2.2, "largest": 2.2, "biggest": 2.2, "most": 1.4,
                    "max": 2.6, "longest": 2.0, "greatest": 2.0, "heaviest": 2.0,
-                   "latest": 1.8, "top": 1.2, "priciest": 2.0, "record": 1.0, "oldest": 1.5,
+                   "latest": 1.8, "top": 1.2, "priciest": 2.0, "oldest": 1.5,
                    "tallest": 2.0, "slowest": 1.6, "costliest": 2.0, "expensive": 1.4,
                    "peak": 2.0, "warmest": 2.0, "hottest": 2.0, "wettest": 2.0}),
     "values": (0.0, {"what": 0.5, "which": 0.5, "who": 0.6, "when": 0.6, "where": 0.6,
@@ -114,7 +115,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                            "maximum": 2.2, "longest": 2.4, "greatest": 2.4, "heaviest": 2.4,
                            "top": 1.6, "best": 1.4, "latest": 1.8, "last": 0.5, "max": 2.2,
                            "tallest": 2.4, "oldest": 1.2, "priciest": 2.4, "expensive": 2.0,
-                           "more": 0.5, "record": 0.8, "slowest": 2.0, "costliest": 2.4,
+                           "more": 0.5, "slowest": 2.0, "costliest": 2.4,
                            "recent": 1.8, "newest": 1.8, "peak": 2.0, "warmest": 2.4,
                            "hottest": 2.4, "wettest": 2.4}),
     "extreme:min": (-1.8, {"least": 2.0, "lowest": 2.4, "smallest": 2.4, "minimum": 2.2,
@@ -143,9 +144,14 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                       "fastest": 1.2, "youngest": 0.6, "soonest": 1.5}),
 }
 
-# "at least 3" and "at most 3" bound a number: they never ask for the least or the most.
+# "at least 3" and "at most 3" bound a number: they never ask for the least or the most; nor
+# do "more than 20" and "fewer than 3" (a comparison) or "how many more" (a difference) ask for
+# the most or the fewest.
+_BOUNDS = (("at least", "least"), ("at most", "most"), ("more than", "more"),
+           ("less than", "less"), ("fewer than", "fewer"), ("many more", "more"),
+           ("much more", "more"), ("many fewer", "fewer"), ("much less", "less"))
 for _fragment, (_, _cues) in CUES.items():
-    for _bound, _word in (("at least", "least"), ("at most", "most")):
+    for _bound, _word in _BOUNDS:
         if _word in _cues and _bound not in _cues:
             _cues[_bound] = -_cues[_word]
 
@@ -280,8 +286,13 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "filter.col:none": -0.4, "filter.col:exact": 0.3,
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
     "num:answer_count": 0.5, "num:answer_count_misread": -2.0,
+    "den:answer_count": 0.8, "den:answer_count_off": -1.0,   # "which 3 clients": 3 answers
+    "dir:unasked": -2.5,             # a most or a least that no word asks for
+    "num:counts_things": 1.5,        # "more than 20 late deliveries": a count per group …
+    "num:counted_as_amount": -1.5,   # … not a sum of a column
     "degree_word:order": 1.0, "degree_word:measure": 1.0, "degree_word:group:sum": -1.0, "degree_word:group:max": 0.5,
     "degree_word:group:min": 0.5,
+    "head:as_condition": -1.5,       # what "how many" counts is no condition's column
     "head:unused_measure": -1.0,     # "how many goals" (a goals column) not answered from it
     "head:counted_measure": -4.0,    # … but by counting rows
     # … or by counting its different values, or grouping by them
@@ -300,6 +311,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
     "agg.on_single": -2.0,
     "col:wh": 0.4, "values.col:wh": 1.0, "key.col:wh": -0.3,   # "who": a person (WH_COLUMNS)
+    "values.col:not_wh": -1.5,       # … not answered by a column of another kind
     "not:gap": -0.3, "not:before": -1.0,   # per word between a negation and what it negates
     # after execution: the answer against the question's wh-word
     "den:empty": -3.0, "den:null": -3.0, "den:many": -0.4, "den:huge": -1.5,
