@@ -214,8 +214,21 @@ def both(a, left: L.Rows, right: L.Rows) -> L.Rows | None:
         return None
     if isinstance(left, L.Eq) and isinstance(right, L.Eq) and left.col == right.col:
         return None
+    averages = _averages(left), _averages(right)
+    if sum(averages) > max(*averages, _averages_said(a)):
+        return None                   # one "than the average" read as two comparisons
     left, right = sorted((left, right), key=str)
     return L.And(left, right)
+
+
+def _averages(rows: L.Rows) -> int:
+    return sum(isinstance(node, L.CmpAgg) for node in L.walk(rows))
+
+
+def _averages_said(a) -> int:
+    """How many words of the question name an average or median ("above-average" is one)."""
+    return sum(any(word in token.text for word in ("average", "mean", "avg", "median"))
+               for token in a.words.tokens)
 
 
 @specify(fragments=("or",), accepts=simple)
@@ -306,6 +319,34 @@ def spread(a, fn1: str, fn2: str, col: str, rows: L.Rows) -> L.Answer | None:
     if {fn1, fn2} != {"max", "min"} or fn1 != "max":
         return None
     return L.Difference(L.Aggregate("max", col, rows), L.Aggregate("min", col, rows))
+
+
+# "How many more late deliveries did Ashcombe have than Dunholt": two values of one column
+# compared within the rows of a condition on another ("late"), which both sides keep.
+def _contrast(common: L.Rows, left: L.Rows, right: L.Rows) -> tuple | None:
+    cols = [getattr(rows, "col", None) for rows in (common, left, right)]
+    if left == right or cols[1] is None or cols[1] != cols[2] or cols[0] == cols[1]:
+        return None
+    return tuple(sorted((_and(common, left), _and(common, right)), key=str))
+
+
+def _and(first: L.Rows, second: L.Rows) -> L.Rows:
+    return L.And(*sorted((first, second), key=str))
+
+
+@specify(fragments=("difference", "count", "and"), accepts=simple)
+def count_difference_within(a, _, common: L.Rows, left: L.Rows,
+                            right: L.Rows) -> L.Answer | None:
+    pair = _contrast(common, left, right)
+    return pair and L.Difference(L.Aggregate("count", None, pair[0]),
+                                 L.Aggregate("count", None, pair[1]))
+
+
+@specify(fragments=("difference", "{AGG}", "and"), role="measure", accepts=simple)
+def aggregate_difference_within(a, fn: str, col: str, common: L.Rows, left: L.Rows,
+                                right: L.Rows) -> L.Answer | None:
+    pair = None if fn == "median" else _contrast(common, left, right)
+    return pair and L.Difference(L.Aggregate(fn, col, pair[0]), L.Aggregate(fn, col, pair[1]))
 
 
 @specify(fragments=("which_of", "count", "dir:{DIR}"), superlative=True,
@@ -402,10 +443,12 @@ def per_group(a, key: str, fn: str, col: str, rows: L.Rows, _) -> L.Answer | Non
 # Filters on groups (HAVING): "depots with more than 20 late deliveries" lists the groups,
 # "how many depots have …" counts them. The groups are a row set (`InGroups`), so the answer is
 # the distinct values of the key, or their count, over it.
-def _groups(key: str, fn: str, col: str | None, rows: L.Rows, op: str,
+def _groups(a, key: str, fn: str, col: str | None, rows: L.Rows, op: str,
             n: float) -> L.InGroups | None:
     if key == col or _filters_on(rows, key) or not scoped(rows):
         return None
+    if a.table.column(key).distinct >= a.table.row_count:
+        return None                   # a group per row: an id ("orders with over 20 plants")
     # The comparison words stand on no span, so one "at least" would read as both comparisons
     # ("at least 3 products under 10"); the same comparison twice is rarely what was asked.
     if any(isinstance(node, L.Cmp) and node.op == op for node in L.walk(rows)):
@@ -417,14 +460,14 @@ def _groups(key: str, fn: str, col: str | None, rows: L.Rows, op: str,
 
 @specify(fragments=("having", "count", "cmp:{CMP}"), role="key", head=True)
 def groups_with_count(a, key: str, _, rows: L.Rows, op: str, n: float) -> L.Answer | None:
-    groups = _groups(key, "count", None, rows, op, n)
+    groups = _groups(a, key, "count", None, rows, op, n)
     return groups and L.Distinct(key, groups)
 
 
 @specify(fragments=("having", "group:{AGG}", "cmp:{CMP}"), role="key", head=True)
 def groups_with(a, key: str, fn: str, col: str, rows: L.Rows, op: str,
                 n: float) -> L.Answer | None:
-    groups = _groups(key, fn, col, rows, op, n)
+    groups = _groups(a, key, fn, col, rows, op, n)
     return groups and L.Distinct(key, groups)
 
 
@@ -432,7 +475,7 @@ def groups_with(a, key: str, fn: str, col: str, rows: L.Rows, op: str,
          aggregating=True)
 def count_groups_with_count(a, _, key: str, __, rows: L.Rows, op: str,
                             n: float) -> L.Answer | None:
-    groups = _groups(key, "count", None, rows, op, n)
+    groups = _groups(a, key, "count", None, rows, op, n)
     return groups and L.Aggregate("count_distinct", key, groups)
 
 
@@ -440,7 +483,7 @@ def count_groups_with_count(a, _, key: str, __, rows: L.Rows, op: str,
          head=True, aggregating=True)
 def count_groups_with(a, _, key: str, fn: str, col: str, rows: L.Rows, op: str,
                       n: float) -> L.Answer | None:
-    groups = _groups(key, fn, col, rows, op, n)
+    groups = _groups(a, key, fn, col, rows, op, n)
     return groups and L.Aggregate("count_distinct", key, groups)
 
 
