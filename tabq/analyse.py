@@ -238,6 +238,7 @@ def _column_mentions(words, table, content, atoms, deadline=None):
     for name, (_, span) in list(found.items()):
         if span and set(range(*span)) <= days:   # "how many days": the rows, not day numbers
             found[name] = ("none", None)
+    _day_of_month(words, table, found)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
         if quality == "synonym" and any(c == name for c, _ in values.get(
@@ -687,6 +688,22 @@ def _days_as_rows(words: Words, table: Table) -> frozenset[int]:
     return frozenset(i for i in candidates
                      if not (i + 1 < len(tokens) and tokens[i + 1].text == "of")
                      and not (i > 0 and tokens[i - 1].text in ("which", "what")))
+
+
+def _day_of_month(words: Words, table: Table, found: dict) -> None:
+    """"day of the month" names the day column, whole: its "month" is no mention of the month
+    column."""
+    day, month = date_parts(table).get("day"), date_parts(table).get("month")
+    texts = [t.text for t in words.tokens]
+    for i in range(len(texts) - 2):
+        j = i + 3 if texts[i + 2] == "the" else i + 2
+        if day and words.tokens[i].stem == "day" and texts[i + 1] == "of" \
+                and j < len(texts) and texts[j] in ("month", "months"):
+            found[day] = ("exact", (i, j + 1))
+            span = found[month][1]
+            if span and i <= span[0] and span[1] <= j + 1:
+                found[month] = ("none", None)
+            return
 
 
 def _date_part_mentions(words: Words, table: Table, atoms) -> None:

@@ -127,6 +127,8 @@ def test_airquality_open_dataset(tmp_path):
         ("what was the wind on 3 May", frame.Wind[(frame.Month == 5) & (frame.Day == 3)]),
         ("how many days in August had a temp above 85",
          ((frame.Month == 8) & (frame.Temp > 85)).sum()),
+        ("on which day of the month was the temperature highest",   # its "month" is the day's
+         frame.Day[frame.Temp.idxmax()]),
         ("how many days after 15 September had wind above 12",
          (((frame.Month * 100 + frame.Day) > 915) & (frame.Wind > 12)).sum()),
     ]:
