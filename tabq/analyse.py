@@ -720,7 +720,7 @@ def _date_part_mentions(words: Words, table: Table, atoms) -> None:
             if part in parts:
                 atoms["ENTITY"].append(Atom("ENTITY", (parts[part], value), (at, at + 1),
                                             quality, 1))
-        if ops and not date.year:
+        if ops and (parts.get("year") or not date.year):
             atoms["DATE"].append(Atom("DATE", ComparedDate(*astuple(date), ops=ops), span,
                                       "month_day", span[1] - span[0]))
 

@@ -168,24 +168,32 @@ def _day(date, last: bool) -> datetime.date | None:
         return None
 
 
-# A log that keeps its dates as numbers (month 1-12, day 1-31: `Analysis.date_parts`): "before
-# July" is month < 7, "after 20 August" month > 8 or month 8 after day 20, compared only as the
-# word before the date says (`analyse.ComparedDate.ops`). A date with a year, and a log of
-# several years, are left out: month and day alone would mix the years.
+# A log that keeps its dates as numbers (month 1-12, day 1-31, a year: `Analysis.date_parts`):
+# "before July" is month < 7, "after 20 August" month > 8 or month 8 after day 20, "before June
+# 2024" year < 2024 or year 2024 before month 6; compared only as the word before the date says
+# (`analyse.ComparedDate.ops`). A date without a year in a log of several years is left out
+# (month and day alone would mix the years), as is a year the log has no column for.
 @specify(fragments=("cmp:{CMP}",), role="datefilter",
          fits=lambda col, op, date: op in getattr(date, "ops", ()))
 def compare_month_day(a, col: str, op: str, date) -> L.Rows | None:
     month, day, year = (a.date_parts.get(p) for p in ("month", "day", "year"))
-    if col != month or op not in getattr(date, "ops", ()) or date.year or (
-            year and a.table.column(year).distinct > 1):
+    if col != month or op not in getattr(date, "ops", ()) or (date.day and not day):
         return None
-    if not date.day:
-        return L.Cmp(month, op, date.month)
-    if not day:
+    if (date.year and not year) or (not date.year and year
+                                    and a.table.column(year).distinct > 1):
         return None
-    earlier = "lt" if op in ("lt", "le") else "gt"
-    return L.Or(L.Cmp(month, earlier, date.month),
-                L.And(L.Eq(month, date.month), L.Cmp(day, op, date.day)))
+    said = [(c, v) for c, v in ((year, date.year), (month, date.month), (day, date.day)) if v]
+    return _compare_in_order(said, op)
+
+
+def _compare_in_order(parts: list[tuple[str, int]], op: str) -> L.Rows:
+    """Parts of a date compared most significant first: (year, month) before (2024, 6) is
+    year < 2024, or year 2024 and month < 6."""
+    (col, value), rest = parts[0], parts[1:]
+    if not rest:
+        return L.Cmp(col, op, value)
+    strict = "lt" if op in ("lt", "le") else "gt"
+    return L.Or(L.Cmp(col, strict, value), L.And(L.Eq(col, value), _compare_in_order(rest, op)))
 
 
 @specify(fragments=("between",), role="filter", compares_numbers=True)

