@@ -16,6 +16,7 @@ from dataclasses import astuple, dataclass, field, replace
 
 from rapidfuzz import fuzz
 
+from . import codes
 from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table, ident
 from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS
@@ -259,12 +260,14 @@ def _column_mentions(words, table, content, atoms, deadline=None):
     return col_match, spans
 
 
-def _header_words(col: Column) -> tuple[list[str], set[str]]:
-    """The stems of a header, and those of them that must be said for an exact mention."""
+def _header_words(col: Column) -> tuple[list[str], set[str], set[str]]:
+    """The stems of a header, those of them that must be said for an exact mention, and those
+    words as written (a stem cuts a joined header short: basesal → bases)."""
     words = split_words(header_text(col)) or split_words(col.base.replace("_", " "))
     stems = [stem(w) for w in words]
-    core = {stem(w) for w in words if w not in UNIT_WORDS} or set(stems)
-    return stems, core
+    written = {w for w in words if w not in UNIT_WORDS} or set(words)
+    core = {stem(w) for w in written}
+    return stems, core, written
 
 
 def header_text(col: Column) -> str:
@@ -274,13 +277,13 @@ def header_text(col: Column) -> str:
     return col.header[:MAX_HEADER].replace("_", " ")
 
 
-def _match_header(header: tuple[list[str], set[str]], stems: list[str], words: Words):
+def _match_header(header: tuple[list[str], set[str], set[str]], stems: list[str], words: Words):
     """The best mention of a header in the question: (quality, span).
 
     The longest run of question words that are all header words wins; it is exact when it
     says every header word but units ("bill length" for "bill_length_mm").
     """
-    all_stems, core = header
+    all_stems, core, written = header
     best_run = None
     i = 0
     while i < len(stems):
@@ -304,6 +307,9 @@ def _match_header(header: tuple[list[str], set[str]], stems: list[str], words: W
     shortened = _shortened_mention(core, words)
     if shortened:
         return "abbrev", shortened
+    joined = _joined_mention(written, words)
+    if joined:
+        return joined
     for i, s in enumerate(stems):
         if len(s) >= 4 and not words.tokens[i].stop and any(
                 len(h) >= 4 and fuzz.ratio(s, h) >= 84 for h in core):
@@ -316,7 +322,7 @@ def _shortened_mention(core: set[str], words: Words) -> tuple[int, int] | None:
     write them: wt for weight, prcp for precipitation, unitpr for unit price, temp hi for a
     high (or peak, by a synonym) temperature. Every header word must be said, so that one
     shared word (temp of temp_lo) does not name a column by itself."""
-    said: dict[str, int] = {}
+    said: dict[str, tuple[int, int]] = {}   # header word → the first and last word saying it
     content = [t for t in words.tokens if not t.stop and t.text[:1].isalpha()]
     for k, tok in enumerate(content):
         following = content[k + 1] if k + 1 < len(content) else None
@@ -324,13 +330,103 @@ def _shortened_mention(core: set[str], words: Words) -> tuple[int, int] | None:
             if h in said or not h.isalpha():
                 continue
             if any(_shortens(h, full) for full in _spellings(tok)):
-                said[h] = tok.index
+                said[h] = (tok.index, tok.index)
             elif following and following.index - tok.index == 1 and _joins(h, tok, following):
-                said[h] = following.index
+                said[h] = (tok.index, following.index)   # both words: "population density"
     if not core or set(said) != core:
         return None
-    first, last = min(said.values()), max(said.values())
+    first, last = min(a for a, _ in said.values()), max(b for _, b in said.values())
     return (first, last + 1) if last - first <= 2 else None
+
+
+# Pieces a joined header writes around its words and that no question needs to say:
+# inmetro, percbelowpoverty, poptotal.
+JOINED_FILLERS = ("in", "of", "per", "perc", "pct", "below", "above", "total", "tot", "num",
+                  "avg", "mean", "is", "has", "no")
+JOINED_SHARE = 0.4   # of a joined header's letters question words must say for a partial mention
+JOINED_MAX = 30      # letters of a joined header read; a longer one is no abbreviation
+
+
+def _joined_mention(written: set[str], words: Words) -> tuple[str, tuple[int, int]] | None:
+    """A header of abbreviations run together (poptotal, percbelowpoverty, inmetro, basesal)
+    named by the question words it is made of: "population" is pop (and total is a filler),
+    "metro" is inmetro, "percentage of college graduates" is percollege, "base salary" is
+    basesal. Every letter explained (by question words and fillers) is an abbrev mention; a
+    question word saying a good share of the letters ("poverty" of percbelowpoverty) a partial
+    mention on that word. A word that only says a filler ("percentage" for perc) names no
+    column: it would name every perc… header; nor does a word's short start or shortening
+    alone (mar of March is no partial mention of margin). Only a header of one long word is
+    read so: a header of several words is matched word by word above."""
+    if len(written) != 1:
+        return None
+    header = next(iter(written))
+    if not (5 <= len(header) <= JOINED_MAX and header.isalpha()):
+        return None
+    content = [t for t in words.tokens if not t.stop and t.text.isalpha()
+               and t.text not in CUE_WORDS and not t.text.endswith("est")]   # lar… of largest
+    pieces = _header_pieces(header, content)
+    if all(kind == "filler" for _, _, kind in pieces):
+        return None
+    at = sorted({tok.index for tok, _, _ in pieces if tok is not None})
+    if sum(k for _, k, _ in pieces) == len(header) and at[-1] - at[0] <= 2:
+        return "abbrev", (at[0], at[-1] + 1)
+    said = [(tok, k) for tok, k, kind in pieces if kind == "word"]
+    if said and sum(k for _, k in said) >= JOINED_SHARE * len(header):
+        tok = max(said, key=lambda piece: piece[1])[0]
+        return "partial", (tok.index, tok.index + 1)
+    return None
+
+
+def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
+    """The best reading of a joined header as pieces (question token or None, letters, kind):
+    most letters explained, then most said by question words (not as fillers, then at all),
+    then fewest pieces. A piece is a "word": a question word (or its stem) of at least 4
+    letters as written inside the header, or its start of at least 4 letters at the header's
+    start or end (dens of densely); "weak": a 3-letter start there (pop of population, sal of
+    salary) or a shortening (yrs of years); or a "filler". A word's start inside the header
+    would be any word's: lar of largest is no part of dollars."""
+    n = len(header)
+    # position → (letters, letters said by non-filler words, by any word, -pieces, pieces)
+    best: list = [None] * (n + 1)
+    best[0] = (0, 0, 0, 0, [])
+    for i in range(n):
+        if best[i] is None:
+            continue
+        letters, said, spoken, count, pieces = best[i]
+        options = [(None, len(f), "filler") for f in JOINED_FILLERS if header.startswith(f, i)]
+        for tok in content:
+            for spelling in {tok.text, tok.stem}:
+                common = _common_start(header, i, spelling)
+                options += [(tok, k, "word" if k >= 4 else "weak") for k in range(3, common + 1)
+                            if (k == len(spelling) and k >= 4) or i == 0 or i + k == n]
+                options += [(tok, k, "weak") for k in range(3, 6) if i + k <= n
+                            and (i == 0 or i + k == n) and _skeleton(header[i:i + k])
+                            and _shortens(header[i:i + k], spelling)]
+        for tok, k, kind in options:
+            if header[i:i + k] in JOINED_FILLERS:
+                kind = "filler"   # "percentage" says no more than perc does
+            step = (letters + k, said + (0 if kind == "filler" else k),
+                    spoken + (tok is not None) * k, count - 1, pieces + [(tok, k, kind)])
+            if best[i + k] is None or step[:4] > best[i + k][:4]:
+                best[i + k] = step
+        gap = (letters, said, spoken, count, pieces)   # a letter no piece explains
+        if best[i + 1] is None or gap[:4] > best[i + 1][:4]:
+            best[i + 1] = gap
+    return best[n][4]
+
+
+def _skeleton(piece: str) -> bool:
+    """Whether a piece is written as shortenings are, by dropping vowels (yrs, qty): popa is
+    no shortening of population, only letters of it in order."""
+    return not any(letter in "aeiou" for letter in piece[1:])
+
+
+def _common_start(header: str, i: int, word: str) -> int:
+    """How many letters of `word` the header spells from position i."""
+    k = 0
+    while i + k < len(header) and k < len(word) and header[i + k] == word[k]:
+        k += 1
+    return k
 
 
 def _spellings(tok) -> set[str]:
@@ -412,9 +508,19 @@ def _value_index(table: Table) -> dict:
                     by_stem[" ".join(vstems)].append((col.name, value))
                 for w in set(vstems):
                     by_word[w].append((col.name, value, vstems))
-    index = {"exact": exact, "stem": by_stem, "word": by_word}
+    index = {"exact": exact, "stem": by_stem, "word": by_word, "name": _names_index(table)}
     table.cache["value_index"] = index
     return index
+
+
+def _names_index(table: Table) -> dict[str, list]:
+    """The names of the well-known things columns write as codes (Ohio for OH, Denmark for
+    DK, codes.py) → (column, value)."""
+    names: dict[str, list] = defaultdict(list)
+    for col in table.columns:
+        for name, value in codes.names_of(col).items():
+            names[name].append((col.name, value))
+    return names
 
 
 def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline=None):
@@ -456,11 +562,62 @@ def _value_mentions(words, table, content, col_match, col_spans, atoms, deadline
             if not hits:
                 for col, value in index["stem"].get(stems, []):
                     add("ENTITY", (col, value), (i, j), "stem")
+            for col, value in index["name"].get(phrase) or index["name"].get(stems, []):
+                add("ENTITY", (col, value), (i, j), "code")   # "Ohio" for OH
             _partial(index, span_tokens, stems, (i, j), content, add, table)
     _fuzzy(index, tokens, content, found, add, deadline)
+    _coded_values(table, words, col_spans, content, add)
     _floating(table, words, found, col_match, col_spans, content, atoms)
+    atoms["ENTITY"] += _flags(table, col_spans, content)
     for atom in found.values():
         atoms[atom.slot].append(atom)
+
+
+VALUE_CODE_LETTERS = (2, 4)   # a coded value of a small column: pt, ft, PAC, WNC
+
+
+def _coded_values(table: Table, words: Words, col_spans, content, add) -> None:
+    """A small column's short coded values said in full: pt by "part-timers" (the initials of
+    words in a row), PAC by "Pacific" (the start of a word, at least 3 letters). Words that
+    name a column are not read so, nor columns of codes whose names codes.py knows."""
+    named = {i for span in col_spans.values() for i in range(*span)}
+    said = [t for t in words.tokens if not t.stop and t.index not in named and t.text.isalpha()]
+    for col in table.columns:
+        if col.kind != "text" or col.view is not None or col.distinct > FLOATING_VALUES \
+                or codes.names_of(col):
+            continue
+        for value in col.values:
+            code = str(value).lower()
+            if VALUE_CODE_LETTERS[0] <= len(code) <= VALUE_CODE_LETTERS[1] and code.isalpha():
+                for span in _spelled_out(code, said, words, content):
+                    add("ENTITY", (col.name, value), span, "abbrev")
+
+
+def _spelled_out(code: str, said: list, words: Words, content) -> list[tuple[int, int]]:
+    """The spans of words that a code shortens: its letters their initials, one word each, the
+    words in a row (a hyphen may join them); or one word it starts (3 letters at least)."""
+    spans = [(t.index, t.index + 1) for t in said if t.index in content
+             and len(code) >= 3 and len(t.text) > len(code) and t.text.startswith(code)]
+    for k in range(len(said) - len(code) + 1):
+        run = said[k:k + len(code)]
+        joined = all(words.tokens[i].text == "-" for a, b in zip(run, run[1:])
+                     for i in range(a.index + 1, b.index))
+        if joined and "".join(t.text[0] for t in run) == code:
+            spans.append((run[0].index, run[-1].index + 1))
+    return spans
+
+
+def _flags(table: Table, col_spans, content) -> list[Atom]:
+    """A 0/1 column named by its word stands for its 1: "metro counties" are inmetro = 1,
+    "remote staff" remote = 1; "non-metro" negates it (a NOT atom on "non")."""
+    flags = []
+    for col in table.columns:
+        span = col_spans.get(col.name)
+        if span and col.kind == "number" and col.view is None and col.integer \
+                and col.distinct == 2 and (col.minimum, col.maximum) == (0, 1):
+            covers = sum(1 for i in range(*span) if i in content)
+            flags.append(Atom("ENTITY", (col.name, 1), span, "flag", covers))
+    return flags
 
 
 def _letter(index, tokens, i: int, col_spans, add) -> None:
@@ -485,6 +642,8 @@ def _with_column_words(entities: list[Atom], col_spans, content, words: Words) -
         if atom.span is None or atom.quality.startswith("floating"):
             continue
         span = col_spans.get(atom.value[0])
+        if span and span[0] >= atom.span[1] and _said_in_plural(words, span, atom.value[0]):
+            continue   # "Ohio counties" are many rows: no one county named Ohio
         gap = range(min(span[1], atom.span[1]), max(span[0], atom.span[0])) if span else ()
         if span and len(gap) <= 1 and all(words.tokens[i].stop for i in gap) and (
                 span[1] <= atom.span[0] or atom.span[1] <= span[0]):
@@ -492,6 +651,14 @@ def _with_column_words(entities: list[Atom], col_spans, content, words: Words) -
             covers = sum(1 for i in range(start, end) if i in content)
             merged.append(Atom("ENTITY", atom.value, (start, end), atom.quality, covers))
     return merged
+
+
+def _said_in_plural(words: Words, span: tuple[int, int], column: str) -> bool:
+    """Whether a singular header is said in the plural ("counties" for county)."""
+    said = words.tokens[span[1] - 1].text
+    written = set(split_words(column.replace("_", " ").lower()))
+    return said not in written and said.endswith("s") and stem(said) in {
+        stem(w) for w in written}
 
 
 def _partial(index, span_tokens, stems, span, content, add, table):

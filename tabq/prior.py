@@ -273,7 +273,10 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "cover": 1.6,                   # per content word a column, value or number accounts for
     "cover:quoted": 2.0,
     "ent:exact": 1.0, "ent:stem": 0.7, "ent:partial": -1.2, "ent:fuzzy": -0.5,
-    "ent:number": 0.3, "ent:floating": -3.5, "ent:floating+col": 1.2,
+    "ent:number": 0.3, "ent:code": 1.2,   # "Ohio" for OH: above a county named OHIO
+    "ent:flag": 1.0,                 # "metro counties": inmetro = 1
+    "ent:abbrev": 0.3,               # "part-timers": pt
+    "ent:floating": -3.5, "ent:floating+col": 1.2,
     "ent:floating+word": -3.5,       # with the cover of its word: still below a named value
     "ent:floating+col_exact": 0.5,
     "contains:partial": -0.3, "contains:quoted": 1.0,
