@@ -131,6 +131,8 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "head:as_condition")
             if atom.span and atom.span[0] == analysis.wh_head and spec.head:
                 _add(feats, f"whhead:{step.rule}")
+            if "present" in spec.fragments and _participle(analysis, atom):
+                _add(feats, "present:participle")   # "the delivered parcels": a delivery date
             if spec.role == "values" and not _of_wh_kind(analysis, col, atom):
                 _add(feats, "values.col:not_wh")   # "who delivered …" answered by a parcel id
             if (spec.superlative or spec.aggregating) and atom.span \
@@ -139,6 +141,17 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 for agg in (a.value for a in step.atoms if a.slot == "AGG"):
                     _add(feats, f"degree_word:group:{agg}")   # … one row, not a group's sum
     return feats
+
+
+def _participle(analysis: Analysis, atom: Atom) -> bool:
+    """A column named by a participle that describes the rows ("the delivered parcels"), not
+    one that names the column with its noun ("a delivered date")."""
+    if not atom.span or atom.quality == "none":
+        return False
+    tokens = analysis.words.tokens
+    after = tokens[atom.span[1]].text if atom.span[1] < len(tokens) else ""
+    return tokens[atom.span[1] - 1].text.endswith("ed") and after not in (
+        "date", "dates", "day", "time", "value", "on", "at")
 
 
 def _first_column(step: Step) -> Atom | None:
@@ -244,35 +257,47 @@ def _asked_directions(analysis: Analysis) -> frozenset[str]:
 
 @node_feature
 def counted_noun(analysis: Analysis, step: Step) -> Features:
-    """"Which depots had more than 20 late deliveries": a number followed by the things it
-    counts, not by a unit of a measure, asks for groups with that many rows, not for groups
-    whose sum of some column passes it."""
+    """"Which depots had more than 20 late deliveries", "which clients placed the most orders":
+    a number or a "most" followed by the things it counts, not by a unit of a measure, asks for
+    a count of rows (in each group), not for a sum or an order of some column standing on the
+    noun (order_date on "orders")."""
+    numbers, nouns = _counted(analysis)
+    feats: Features = {}
     frags = spec_of(step.rule).fragments
-    if "having" not in frags:
-        return {}
-    counting = _counting_numbers(analysis)
     for atom in step.atoms:
-        if atom.slot == "NUMBER" and atom.span in counting:
-            return {"num:counts_things" if "count" in frags else "num:counted_as_amount": 1.0}
-    return {}
+        if atom.slot == "NUMBER" and atom.span in numbers and "having" in frags:
+            _add(feats, "num:counts_things" if "count" in frags else "num:counted_as_amount")
+        elif atom.slot.endswith("COL") and atom.span and atom.span[0] in nouns \
+                and spec_of(step.rule).role != "datefilter" \
+                and analysis.table.column(atom.value).kind in ("number", "date"):
+            _add(feats, "noun:counted_as_amount")
+    return feats
 
 
-def _counting_numbers(analysis: Analysis) -> frozenset[tuple[int, int]]:
-    """Spans of the numbers followed, within two words, by a plural noun that is no number
+COUNTING_WORDS = frozenset({"most", "fewest", "least", "more", "fewer"})
+
+
+def _counted(analysis: Analysis) -> tuple[frozenset, frozenset]:
+    """The spans of the numbers, and the positions of the nouns, where a number or a counting
+    word ("most", "fewer" …) is followed within two words by a plural noun that is no number
     column's unit (the last word of its header: "20 kg", "10 days" with hire_days)."""
-    if "counting" not in analysis.cache:
+    if "counted" not in analysis.cache:
         units = {stem(words[-1]) for col in analysis.table.columns if col.kind == "number"
                  for words in [split_words(header_text(col))] if words}
-        tokens, found = analysis.words.tokens, set()
-        for atom in analysis.atoms.get("NUMBER", []):
-            for token in tokens[atom.span[1]:atom.span[1] + 2] if atom.span else ():
+        tokens, numbers, nouns = analysis.words.tokens, set(), set()
+        starts = [atom.span for atom in analysis.atoms.get("NUMBER", []) if atom.span]
+        starts += [(i, i + 1) for i, t in enumerate(tokens) if t.text in COUNTING_WORDS]
+        for span in starts:
+            for at in range(span[1], min(span[1] + 2, len(tokens))):
+                token = tokens[at]
                 if token.stop or not is_word(token.text):
                     break
                 if _plural(token.text) and token.stem not in units:
-                    found.add(atom.span)
+                    numbers.add(span)
+                    nouns.add(at)
                     break
-        analysis.cache["counting"] = frozenset(found)
-    return analysis.cache["counting"]
+        analysis.cache["counted"] = frozenset(numbers), frozenset(nouns)
+    return analysis.cache["counted"]
 
 
 def _plural(word: str) -> bool:
@@ -323,6 +348,46 @@ def repeated_columns(analysis: Analysis, step: Step) -> Features:
         repeats += col in seen
         seen.add(col)
     return {"col:repeated": float(repeats)} if repeats else {}
+
+
+@child_feature
+def share_whole(analysis: Analysis, step: Step) -> Features:
+    """"Of the delivered parcels, what percentage were late", "what percentage of rose orders
+    came back": the words that name the parcels or orders name the whole, not the part."""
+    if not step.child_used or not any(
+            f.startswith("share:") for f in spec_of(step.rule).fragments):
+        return {}
+    phrase = _whole_phrase(analysis)
+    said = step.child_used[0]      # the whole of a share within another set, else the part
+    if len(step.child_used) == 2 and said & phrase:
+        return {"share:whole_named": 1.0}
+    if len(step.child_used) == 1 and said and said <= phrase:
+        return {"share:whole_as_part": 1.0}
+    return {}
+
+
+SHARE_WORDS = frozenset({"percentage", "percent", "share", "fraction", "proportion", "pct"})
+VERBS = frozenset({"is", "are", "was", "were", "have", "has", "had", "do", "does", "did",
+                   "came", "come", "went", "go", "got", "get", "paid", "took", "made"})
+
+
+def _whole_phrase(analysis: Analysis) -> frozenset[int]:
+    """The words that name the rows a share is taken of: after an opening "of" or "among" up
+    to the question word, or after "percentage of" up to the verb."""
+    if "whole" not in analysis.cache:
+        tokens = analysis.words.tokens
+        texts = [t.text for t in tokens]
+        start = 1 if texts[:1] in (["of"], ["among"]) else next(
+            (i + 2 for i in range(len(texts) - 1)
+             if texts[i] in SHARE_WORDS and texts[i + 1] == "of"), None)
+        found = set()
+        for at in range(start or len(texts), len(texts)):
+            if texts[at] in VERBS or texts[at] in ("what", "how", "which", ",") \
+                    or not is_word(texts[at]) and texts[at] != "'s":
+                break
+            found.add(at)
+        analysis.cache["whole"] = frozenset(found)
+    return analysis.cache["whole"]
 
 
 @child_feature
@@ -385,7 +450,8 @@ def _asked_measure(analysis: Analysis) -> tuple[int, int] | None:
     if analysis.qtype not in ("how_many", "how_much"):
         return None
     for name, span in analysis.spans.items():
-        if span[0] == analysis.head and analysis.col_match.get(name) in ("exact", "stem") \
+        if span[0] == analysis.head and analysis.col_match.get(name) in (
+                "exact", "stem", "abbrev", "partial") \
                 and _is_quantity(analysis.table.column(name), analysis, span):
             return span
     return None
@@ -394,11 +460,13 @@ def _asked_measure(analysis: Analysis) -> tuple[int, int] | None:
 def _is_quantity(col, analysis: Analysis, span: tuple[int, int]) -> bool:
     """Whether "how many <word>" asks for a number column's amount: "goals" with a goals column
     does, "tickets" with a ticket column (one ticket a row, its number) counts rows. The
-    question's word must be the header's word as written, plural for plural."""
+    question's word must be the header's word as written, plural for plural, or end a header
+    of joined words as written ("adults" of popadults)."""
     if col.kind != "number":
         return False
     said = analysis.words.tokens[span[0]].text
-    return said in split_words(header_text(col))
+    return any(word == said or (len(said) >= 4 and word.endswith(said))
+               for word in split_words(header_text(col)))
 
 
 # ── answers ───────────────────────────────────────────────────────────────────────────────────

@@ -288,11 +288,14 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "measure.col:exact": 0.6, "key.col:exact": 0.3,
     "filter.col:none": -0.4, "filter.col:exact": 0.3,
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
-    "num:answer_count": 0.5, "num:answer_count_misread": -2.0,
+    "num:answer_count": 0.5, "num:answer_count_misread": -3.0,
     "den:answer_count": 0.8, "den:answer_count_off": -1.0,   # "which 3 clients": 3 answers
     "dir:unasked": -2.5,             # a most or a least that no word asks for
     "num:counts_things": 1.5,        # "more than 20 late deliveries": a count per group …
     "num:counted_as_amount": -1.5,   # … not a sum of a column
+    "present:participle": 1.0,
+    "share:whole_named": 1.5, "share:whole_as_part": -1.5,   # "of the delivered parcels, …"
+    "noun:counted_as_amount": -1.5,  # "the most orders": not order_date, nor any amount of it
     "degree_word:order": 1.0, "degree_word:measure": 1.0, "degree_word:group:sum": -1.0, "degree_word:group:max": 0.5,
     "degree_word:group:min": 0.5,
     "head:as_condition": -1.5,       # what "how many" counts is no condition's column

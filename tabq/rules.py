@@ -247,9 +247,15 @@ def either(a, left: L.Rows, _, right: L.Rows) -> L.Rows | None:
     return L.Or(left, right)
 
 
-@specify(fragments=("not",), accepts=simple)
+@specify(fragments=("not",), accepts=lambda f: simple(f) or _present(f))
 def negate(a, _, rows: L.Rows) -> L.Rows | None:
+    if _present(rows):
+        return rows.rows        # "not returned", "don't have a rating": the cell is missing
     return None if isinstance(rows, L.Missing) else L.Not(rows)   # `present` says that
+
+
+def _present(rows: L.Form) -> bool:
+    return isinstance(rows, L.Not) and isinstance(rows.rows, L.Missing)
 
 
 @specify(fragments=("extreme:{DIR}",), role="order", accepts=scoped, superlative=True)
