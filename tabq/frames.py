@@ -67,7 +67,7 @@ def load_frame(data: object, title: str | None = None) -> Table:
     if kind is None:
         raise InputError(f"tabq.open takes a path or a pandas, polars or Arrow table or a DuckDB "
                          f"relation, not {type(data).__name__}")
-    con = load._connect()
+    con = load.connect()
     try:
         con.register("_frame", _scannable(kind, data))
         try:
@@ -79,7 +79,7 @@ def load_frame(data: object, title: str | None = None) -> Table:
         report = ReadReport(format=kind)
         plans, row_count = build(con, headers, report)
         columns = profile(con, plans, row_count)
-        load._lock(con)
+        load.lock(con)
     except BaseException:
         con.close()
         raise

@@ -72,7 +72,7 @@ def table_names(path: str | Path) -> list[str]:
 
 
 def _load(what: Given, table: str | None, choices: ReadChoices | None) -> Table:
-    con = _connect()
+    con = connect()
     try:
         if what.several:
             read_one = functools.partial(_read_part, choices=choices)
@@ -84,7 +84,7 @@ def _load(what: Given, table: str | None, choices: ReadChoices | None) -> Table:
         plans, row_count = build(con, source.headers, source.report,
                                  forced=bool(choices and choices.decimal_mark))
         columns = profile(con, plans, row_count)
-        _lock(con)
+        lock(con)
     except BaseException:
         con.close()
         raise
@@ -117,7 +117,7 @@ def _read_part(con: Con, part: Part, table: str | None,
     return source
 
 
-def _connect() -> Con:
+def connect() -> Con:
     """An in-memory database, bounded from the start so loading a huge file cannot run away."""
     con = duckdb.connect(":memory:")
     con.execute(f"SET memory_limit = '{memory_limit() >> 20}MiB'")
@@ -129,7 +129,7 @@ def _connect() -> Con:
     return con
 
 
-def _lock(con: Con) -> None:
+def lock(con: Con) -> None:
     """After loading, queries may read only TABLE: no files, no network, no changed settings.
 
     `con.interrupt()` keeps working, so the executor can still stop a query at its deadline.
