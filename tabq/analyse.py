@@ -803,7 +803,8 @@ DATE_PART_RANGES = {"month": (1, 12), "day": (1, 31), "year": (1000, 2100)}
 _PART_FILLERS = frozenset({"num", "number", "no", "nr", "of", "the", "in"})
 # Words before a bare "may" (or "mar", "jun" …) that make it a month: "in May", "than May".
 _MONTH_LEAD = frozenset({"in", "of", "than", "before", "after", "since", "until", "till",
-                         "during", "from", "to", "through", "except", "outside", "and", "or"})
+                         "between", "during", "from", "to", "through", "except", "outside",
+                         "and", "or"})
 
 
 def date_parts(table: Table) -> dict[str, str]:
@@ -875,13 +876,16 @@ def _day_of_month(words: Words, table: Table, found: dict) -> None:
 
 def _date_part_mentions(words: Words, table: Table, atoms) -> None:
     """A month name, a day and a year said in the question, as values of the columns that
-    hold them, and a date with no year as a DATE atom that compare_month_day can compare."""
+    hold them, and a date after a comparison word or at an end of a range as a DATE atom that
+    compare_month_day or between_month_days can compare."""
     parts = date_parts(table)
     if not parts:
         return
-    for date in _month_mentions(words):
+    dates = _month_mentions(words)
+    ends = _range_ends(words, dates)
+    for date in dates:
         span = (date.start, date.end)
-        ops = _compared_by(words, date)
+        ops = _compared_by(words, date) + ends.get(date.start, ())
         quality = "number" if ops else "exact"   # "before 10 June" is rarely "on 10 June"
         for part, value, at in _said_parts(date, words):
             if part in parts:
@@ -899,6 +903,25 @@ class ComparedDate(DateMention):
     words float and one of them could otherwise be read twice ("after 20 August … below 18")."""
 
     ops: tuple[str, ...] = ()
+
+
+# A range of dates: "between May and July", "from 1 June to 15 August", "May through July".
+_RANGE_JOINERS = frozenset({"and", "to", "through", "until", "till", "-", "–"})
+
+
+def _range_ends(words: Words, dates: list[DateMention]) -> dict[int, tuple[str, ...]]:
+    """Where two dates make a range, by the start of each: "from" for its first end, "to" for
+    its last (ComparedDate.ops, for between_month_days)."""
+    texts = [t.text for t in words.tokens]
+    starts = {d.start: d for d in dates}
+    ends: dict[int, tuple[str, ...]] = {}
+    for first in dates:
+        second = starts.get(first.end + 1)
+        if second and first.end < len(texts) and texts[first.end] in _RANGE_JOINERS and (
+                texts[first.end] != "and" or first.start and texts[first.start - 1] == "between"):
+            ends[first.start] = ends.get(first.start, ()) + ("from",)
+            ends[second.start] = ends.get(second.start, ()) + ("to",)
+    return ends
 
 
 def _compared_by(words: Words, date: DateMention) -> tuple[str, ...]:

@@ -261,9 +261,11 @@ def counted_noun(analysis: Analysis, step: Step) -> Features:
     a number or a "most" followed by the things it counts, not by a unit of a measure, asks for
     a count of rows (in each group), not for a sum or an order of some column standing on the
     noun (order_date on "orders")."""
-    numbers, nouns = _counted(analysis)
+    numbers, nouns, most = _counted(analysis)
     feats: Features = {}
     frags = spec_of(step.rule).fragments
+    if most and "count" in frags and any(atom.slot == "DIR" for atom in step.atoms):
+        _add(feats, "noun:counted")       # "the most orders": a count explains the noun
     for atom in step.atoms:
         if atom.slot == "NUMBER" and atom.span in numbers and "having" in frags:
             _add(feats, "num:counts_things" if "count" in frags else "num:counted_as_amount")
@@ -277,10 +279,11 @@ def counted_noun(analysis: Analysis, step: Step) -> Features:
 COUNTING_WORDS = frozenset({"most", "fewest", "least", "more", "fewer"})
 
 
-def _counted(analysis: Analysis) -> tuple[frozenset, frozenset]:
+def _counted(analysis: Analysis) -> tuple[frozenset, frozenset, bool]:
     """The spans of the numbers, and the positions of the nouns, where a number or a counting
     word ("most", "fewer" …) is followed within two words by a plural noun that is no number
-    column's unit (the last word of its header: "20 kg", "10 days" with hire_days)."""
+    column's unit (the last word of its header: "20 kg", "10 days" with hire_days); and
+    whether a counting word is."""
     if "counted" not in analysis.cache:
         units = {stem(words[-1]) for col in analysis.table.columns if col.kind == "number"
                  for words in [split_words(header_text(col))] if words}
@@ -296,7 +299,8 @@ def _counted(analysis: Analysis) -> tuple[frozenset, frozenset]:
                     numbers.add(span)
                     nouns.add(at)
                     break
-        analysis.cache["counted"] = frozenset(numbers), frozenset(nouns)
+        most = any(tokens[span[0]].text in COUNTING_WORDS for span in numbers)
+        analysis.cache["counted"] = frozenset(numbers), frozenset(nouns), most
     return analysis.cache["counted"]
 
 

@@ -109,7 +109,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "or": (-1.5, {"or": 2.2, "either": 1.5}),
     "not": (-2.5, {"not": 3.0, "n't": 3.0, "except": 3.0, "other than": 3.0, "excluding": 3.0,
                    "without": 1.5, "non": 3.5, "never": 2.0, "no": 0.8, "besides": 2.0,
-                   "apart from": 2.5, "aside from": 2.5, "isn't": 3.0, "wasn't": 3.0,
+                   "apart from": 2.5, "aside from": 2.5, "outside": 2.5, "isn't": 3.0, "wasn't": 3.0,
                    "weren't": 3.0, "aren't": 3.0, "didn't": 3.0, "doesn't": 3.0}),
     "extreme:max": (-1.8, {"most": 2.0, "highest": 2.4, "largest": 2.4, "biggest": 2.4,
                            "maximum": 2.2, "longest": 2.4, "greatest": 2.4, "heaviest": 2.4,
@@ -296,6 +296,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "present:participle": 1.0,
     "share:whole_named": 1.5, "share:whole_as_part": -1.5,   # "of the delivered parcels, …"
     "noun:counted_as_amount": -1.5,  # "the most orders": not order_date, nor any amount of it
+    "noun:counted": 1.5,             # … but a count of them
     "degree_word:order": 1.0, "degree_word:measure": 1.0, "degree_word:group:sum": -1.0, "degree_word:group:max": 0.5,
     "degree_word:group:min": 0.5,
     "head:as_condition": -1.5,       # what "how many" counts is no condition's column

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import datetime
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 from . import logic as L
@@ -184,6 +184,22 @@ def compare_month_day(a, col: str, op: str, date) -> L.Rows | None:
         return None
     said = [(c, v) for c, v in ((year, date.year), (month, date.month), (day, date.day)) if v]
     return _compare_in_order(said, op)
+
+
+# "between May and July", "from 1 June to 15 August" in such a log: both ends kept.
+@specify(fragments=("between",), role="datefilter",
+         fits=lambda col, start, end: "from" in getattr(start, "ops", ())
+         and "to" in getattr(end, "ops", ()))
+def between_month_days(a, col: str, start, end) -> L.Rows | None:
+    if "from" not in getattr(start, "ops", ()) or "to" not in getattr(end, "ops", ()):
+        return None
+    low = compare_month_day(a, col, "ge", replace(start, ops=("ge",)))
+    high = compare_month_day(a, col, "le", replace(end, ops=("le",)))
+    if low is None or high is None:
+        return None
+    if isinstance(low, L.Cmp) and isinstance(high, L.Cmp):   # months alone
+        return L.Between(col, low.value, high.value) if low.value < high.value else None
+    return L.And(low, high)
 
 
 def _compare_in_order(parts: list[tuple[str, int]], op: str) -> L.Rows:

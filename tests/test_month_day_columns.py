@@ -72,6 +72,11 @@ def _md(f: pd.DataFrame) -> pd.Series:
      lambda f: ((_md(f) > 925) & (f.pickers > 20)).sum()),
     ("how many days since 15 October had more than 5 sun hours",
      lambda f: ((_md(f) >= 1015) & (f.sun_hours > 5)).sum()),
+    # a range keeps both ends
+    ("how many days between April and June had more than 10 sun hours",
+     lambda f: (f.Month_Num.between(4, 6) & (f.sun_hours > 10)).sum()),
+    ("what was the total sun hours from 10 May to 20 June",
+     lambda f: f.sun_hours[_md(f).between(510, 620)].sum()),
     # "days" are the rows of a log kept one row a day
     ("how many days had more than 20 pickers", lambda f: (f.pickers > 20).sum()),
     ("how many days are in the log", lambda f: len(f)),
