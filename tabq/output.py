@@ -174,17 +174,17 @@ def format_answer(reading: Reading, limit: int = 12) -> str:
 
 
 def format_result(result: Result, top: int = 3, every: bool = False,
-                  colour: bool = False) -> str:
+                  colour: bool = False, cut_hint: str = "") -> str:
     """The answer, its SQL, its reading and how sure the model is; then the runners-up. A
     per-group answer is drawn as bars; a long answer is cut at SHOWN values unless `every`.
     `colour` adds terminal colours to the bars (the CLI asks for them on a terminal, without
-    NO_COLOR)."""
+    NO_COLOR). `cut_hint` follows a cut answer: how to see all of it, where there is a way."""
     best = result.best
     read = read_line(result.read)     # under the answer: a row left out can change it
     if best is None:
         return "\n".join(["No reading of this question fits the table."] + ([read] if read else []))
     sure = f"{best.probability:.0%} of the model's belief"
-    lines = _best_lines(result, best, every, colour) + ([read] if read else [])
+    lines = _best_lines(result, best, every, colour, cut_hint) + ([read] if read else [])
     lines += [f"Reading:  {best.paraphrase}",
               f"SQL:      {best.sql}",
               f"Sureness: {sure}" + (f"  — unsure: {result.unsure_reason}. Check the SQL "
@@ -199,24 +199,28 @@ def format_result(result: Result, top: int = 3, every: bool = False,
     return "\n".join(lines)
 
 
-def _best_lines(result: Result, best: Reading, every: bool, colour: bool) -> list[str]:
+def _best_lines(result: Result, best: Reading, every: bool, colour: bool,
+                cut_hint: str) -> list[str]:
     """The "Answer:" line; for a per-group answer, a bar chart under it."""
     if best.error or not best.answer:
         return [f"Answer:   {format_answer(best)}"]
     shown = answer_table(best, result.table, every)
     if not best.is_table:
         values = [row[0] for row in shown.rows]
-        whole = Reading(best.form, best.sql, best.paraphrase, values, best.score, {})
-        line = format_answer(whole, len(values) if every else SHOWN)
-        return [f"Answer:   {line}" + (" (--all shows every one)" if " more" in line
-                                      and not every else "")]
+        kept = values if every else values[:SHOWN]
+        line = format_answer(Reading(best.form, best.sql, best.paraphrase, kept, best.score, {}),
+                             len(kept))
+        if len(kept) < len(values):       # more past those kept while ranking: "1000+"
+            line += f" … and {len(values) - len(kept)}{'' if shown.complete else '+'} more"
+            line += f" ({cut_hint})" if cut_hint else ""
+        return [f"Answer:   {line}"]
     rows = shown.rows if every else shown.rows[:SHOWN]
     more = len(shown.rows) - len(rows)
     head = (f"Answer:   a table of {len(shown.rows)}{'' if shown.complete else '+'} rows "
             f"({', '.join(shown.columns)})")
     lines = [head] + ["  " + line for line in bar_chart_lines(shown.columns, rows, colour)]
     if more > 0:
-        lines.append(f"  … and {more} more rows (--all shows every one)")
+        lines.append(f"  … and {more} more rows" + (f" ({cut_hint})" if cut_hint else ""))
     return lines
 
 
@@ -247,7 +251,7 @@ def render(result: Result, fmt: str, top: int = 3, every: bool = False,
            colour: bool = False) -> str:
     """The result in one of FORMATS, as the text to print or write (ending in a newline)."""
     if fmt == "text":
-        return format_result(result, top, every, colour) + "\n"
+        return format_result(result, top, every, colour, "--all shows every one") + "\n"
     if fmt == "json":
         return dump_json(as_json(result, top, every)) + "\n"
     shown = best_table(result, every)
