@@ -395,7 +395,7 @@ def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
         letters, said, spoken, count, pieces = best[i]
         options = [(None, len(f), "filler") for f in JOINED_FILLERS if header.startswith(f, i)]
         for tok in content:
-            for spelling in {tok.text, tok.stem}:
+            for spelling in {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())}:
                 common = _common_start(header, i, spelling)
                 options += [(tok, k, "word" if k >= 4 else "weak") for k in range(3, common + 1)
                             if (k == len(spelling) and k >= 4) or i == 0 or i + k == n]

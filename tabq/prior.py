@@ -204,6 +204,7 @@ ROW_NOUNS = frozenset(
 
 # Everyday stand-ins for common column words: question stem → header stems it can mean.
 SYNONYMS: dict[str, tuple[str, ...]] = {
+    "peopl": ("popul",), "inhabit": ("popul",), "resid": ("popul",),   # pop of poptotal
     "cost": ("price", "fee", "amount", "charg"), "price": ("cost", "fee", "amount", "fare"),
     "paid": ("price", "amount", "fee", "payment"), "pay": ("price", "amount", "payment"),
     "spent": ("amount", "cost", "price"), "spend": ("amount", "cost", "price"),
