@@ -88,11 +88,12 @@ def _countries() -> dict[str, tuple[str, ...]]:
 
 def _demonyms() -> dict[str, tuple[str, ...]]:
     """Per ISO alpha-2 code, what the country's people are called, from the data file of the
-    pycountryinfo package (read as data: its module, which would fetch from the web, is never
-    imported). "Antiguan or Barbudan" is two."""
+    pycountryinfo package. Only its data package (empty) is imported: its countryinfo module
+    imports requests, a web client tabq has no use for. "Antiguan or Barbudan" is two."""
     from importlib import resources
     try:
-        text = (resources.files("pycountryinfo") / "data" / "countries.json").read_text("utf-8")
+        from pycountryinfo import data as country_data
+        text = (resources.files(country_data) / "countries.json").read_text("utf-8")
         entries = json.loads(text)
     except (ModuleNotFoundError, OSError, ValueError):
         return {}
