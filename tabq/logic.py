@@ -546,7 +546,7 @@ class _Reader:
         return f"whether there is any row where {self.cond(f.rows)}"
 
     def share(self, f: Share) -> str:
-        name = "percentage (0 to 100)" if f.unit == "percent" else "share (0 to 1)"
+        name = "percentage (0 to 100)" if f.unit == "percent" else "fraction (0 to 1)"
         if isinstance(f.within, All):
             return f"the {name} of all rows where {self.cond(f.rows)}"
         return f"among rows where {self.cond(f.within)}, the {name} where {self.cond(f.rows)}"

@@ -56,8 +56,11 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
                          "for every": 2.5, "grouped": 2.5, "split by": 2.0}),
     # filters on groups, shares and per-period tables (rules.groups_with …, share, per_period)
     "having": (-1.5, {"have": 2.0, "has": 2.0, "had": 1.5, "with": 1.8, "whose": 2.0}),
-    "share:percent": (-3.0, {"percent": 4.0, "percentage": 4.0, "pct": 3.5, "per cent": 4.0}),
-    "share:fraction": (-3.0, {"share": 4.0, "fraction": 4.0, "proportion": 4.0, "ratio": 3.0}),
+    # a share is reported out of 100, as analysts write it ("a 12% share"); a fraction, a
+    # proportion or a ratio from 0 to 1
+    "share:percent": (-3.0, {"percent": 4.0, "percentage": 4.0, "pct": 3.5, "per cent": 4.0,
+                             "share": 4.0}),
+    "share:fraction": (-3.0, {"fraction": 4.0, "proportion": 4.0, "ratio": 3.0}),
     # no word stands on "above average"'s comparison: only a comparison word beside an average
     # word brings it in ("above the average amount", "heavier than average"), not "average" alone
     "than:avg": (-5.0, {"average": 1.5, "mean": 1.5, "avg": 1.5,

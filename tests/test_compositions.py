@@ -127,10 +127,16 @@ def test_how_many_groups_meet_a_condition(orders, orders_df):
 
 
 # ── 2. shares and percentages ─────────────────────────────────────────────────────────────────
-def test_share_of_rows_is_a_fraction(orders, orders_df):
-    expected = [(orders_df.status == "returned").mean()]    # pandas: mean of a boolean
+def test_share_of_rows_is_a_percentage(orders, orders_df):
+    expected = [100 * (orders_df.status == "returned").mean()]   # pandas: 100 × mean
     result = check(orders, "what share of orders were returned", expected)
-    assert "share" in result.paraphrase and "0 to 1" in result.paraphrase
+    assert "percentage" in result.paraphrase
+
+
+def test_proportion_of_rows_is_a_fraction(orders, orders_df):
+    expected = [(orders_df.status == "returned").mean()]    # pandas: mean of a boolean
+    result = check(orders, "what proportion of orders were returned", expected)
+    assert "0 to 1" in result.paraphrase
 
 
 def test_percentage_of_rows_is_out_of_100(orders, orders_df):

@@ -198,7 +198,7 @@ def test_paraphrase_of_a_share_says_its_scale():
     assert L.paraphrase(L.Share("percent", CHEAP, L.All())) == (
         "the percentage (0 to 100) of all rows where fare is less than 10")
     assert L.paraphrase(L.Share("fraction", CHEAP, FENWICK)) == (
-        'among rows where route is "Fenwick Loop", the share (0 to 1) where fare is less than 10')
+        'among rows where route is "Fenwick Loop", the fraction (0 to 1) where fare is less than 10')
 
 
 def test_paraphrase_of_a_month_table_says_years_stay_apart():
