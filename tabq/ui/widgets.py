@@ -34,7 +34,8 @@ def answer_text(reading: pipeline.Reading, most: int = 6) -> Text:
     if not reading.answer:
         return Text("(empty answer)", style="italic #c9a25a")
     if reading.is_table:
-        return Text(f"a table of {len(reading.answer)} groups", style="bold #9ad0c2")
+        n = len(reading.answer)
+        return Text(f"a table of {n} group{'' if n == 1 else 's'}", style="bold #9ad0c2")
     shown = ", ".join("(missing)" if v is None else str(v) for v in reading.answer[:most])
     more = f" … {len(reading.answer)} values" if len(reading.answer) > most else ""
     return Text(shown + more, style="bold #9ad0c2")
