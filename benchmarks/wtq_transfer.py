@@ -5,7 +5,7 @@ MODEL_DIR is a model folder trained by `tabq eval TEST --train TRAIN --model MOD
 the weights that moved most, then right/total per set for the prior, the trained model and
 models keeping part of what it learned (see docs/results.md).
 """
-import json, sys, time
+import json, sys
 from pathlib import Path
 import tabq
 from tabq.answers import matches
