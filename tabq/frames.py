@@ -54,7 +54,7 @@ def _kind(data: object) -> str | None:
         return "polars"
     if module == "pyarrow" and name in ("Table", "RecordBatch"):
         return "arrow"
-    if module == "duckdb" and name == "DuckDBPyRelation":
+    if module in ("duckdb", "_duckdb") and name == "DuckDBPyRelation":   # 1.x: _duckdb
         return "duckdb"
     return None
 
