@@ -318,7 +318,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "whhead:top_n": 0.8, "whhead:top_values": 0.8,
     "whhead:groups_with_count": 1.2, "whhead:groups_with": 1.2,
     "head:count_groups_with_count": 2.5, "head:count_groups_with": 2.5,
-    "ent:floating_yes": 0.8, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
+    "ent:floating_yes": 1.6, "extreme.all": 0.2, "position.all": 0.2, "and:same_col": -2.0,
     "neighbour:multi": -0.8, "top_n.small": 0.5, "which_of.same": 0.0,
     "agg.on_single": -2.0,
     "col:wh": 0.4, "values.col:wh": 1.0, "key.col:wh": -0.3,   # "who": a person (WH_COLUMNS)
