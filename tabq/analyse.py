@@ -72,6 +72,7 @@ class Analysis:
     spans: dict = field(default_factory=dict)   # column name → span of its mention
     cache: dict = field(default_factory=dict)   # per-question memo of feature dicts
     date_parts: dict = field(default_factory=dict)   # month/day/year → its number column
+    row_words: frozenset[int] = frozenset()   # words naming the rows ("journal" of journals.csv)
 
 
 def analyse(question: str, table: Table, deadline: float | None = None) -> Analysis:
@@ -82,7 +83,8 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
         raise QuestionError("the question is empty: ask something about the table")
     truncated = len(text) > MAX_QUESTION
     words = read_question(text[:MAX_QUESTION])
-    content = set(_content_tokens(words, table))
+    row_words = _row_words(words, table)
+    content = set(_content_tokens(words, table, row_words))
     atoms: dict[str, list[Atom]] = defaultdict(list)
     col_match, spans = _column_mentions(words, table, content, atoms, deadline)
     _value_mentions(words, table, content, col_match, spans, atoms, deadline)
@@ -99,20 +101,26 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     return Analysis(words, table, dict(atoms), col_match, frozenset(content), grams,
                     qtype, _head(words, ("how many", "number of")),
                     _head(words, ("which", "what")),
-                    truncated, spans, date_parts=date_parts(table))
+                    truncated, spans, date_parts=date_parts(table), row_words=row_words)
 
 
-def _content_tokens(words: Words, table: Table) -> frozenset[int]:
+def _row_words(words: Words, table: Table) -> frozenset[int]:
+    """Words that name the table's rows rather than a column: a row noun ("records"), a word
+    of the table's own name ("journals") or of its id column's header."""
     ids = {stem(w) for col in table.columns if _is_id(col, table)
            for w in split_words(header_text(col)) if w not in ("id", "no", "number")}
     headers = {stem(w) for col in table.columns for w in split_words(header_text(col))}
     title = {stem(w) for w in split_words(table.title.replace("_", " "))} - headers
     row_nouns = ({stem(w) for w in ROW_NOUNS} - headers) | title | ids
+    return frozenset(t.index for t in words.tokens if not t.stop and t.stem in row_nouns)
+
+
+def _content_tokens(words: Words, table: Table, row_words: frozenset[int]) -> frozenset[int]:
     cue_stems = {stem(w) for w in CUE_WORDS}
     days = _days_as_rows(words, table)
     return frozenset(
         t.index for t in words.tokens
-        if not t.stop and t.stem not in cue_stems and t.stem not in row_nouns
+        if not t.stop and t.stem not in cue_stems and t.index not in row_words
         and t.text not in CUE_WORDS and is_word(t.text) and t.index not in days
     )
 
@@ -362,8 +370,7 @@ def _joined_mention(written: set[str], words: Words) -> tuple[str, tuple[int, in
     header = next(iter(written))
     if not (5 <= len(header) <= JOINED_MAX and header.isalpha()):
         return None
-    content = [t for t in words.tokens if not t.stop and t.text.isalpha()
-               and t.text not in CUE_WORDS and not t.text.endswith("est")]   # lar… of largest
+    content = [t for t in words.tokens if not t.stop and t.text.isalpha() and _joined_spellings(t)]
     pieces = _header_pieces(header, content)
     if all(kind == "filler" for _, _, kind in pieces):
         return None
@@ -395,7 +402,7 @@ def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
         letters, said, spoken, count, pieces = best[i]
         options = [(None, len(f), "filler") for f in JOINED_FILLERS if header.startswith(f, i)]
         for tok in content:
-            for spelling in {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())}:
+            for spelling in _joined_spellings(tok):
                 common = _common_start(header, i, spelling)
                 options += [(tok, k, "word" if k >= 4 else "weak") for k in range(3, common + 1)
                             if (k == len(spelling) and k >= 4) or i == 0 or i + k == n]
@@ -413,6 +420,15 @@ def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
         if best[i + 1] is None or gap[:4] > best[i + 1][:4]:
             best[i + 1] = gap
     return best[n][4]
+
+
+def _joined_spellings(tok) -> set[str]:
+    """What a question word may say inside a joined header. A cue or a superlative says it only
+    through the words it stands for ("expensive" → price of libprice): its own start would be
+    any word's (lar of largest is no part of dollars)."""
+    if tok.text in CUE_WORDS or tok.text.endswith("est"):
+        return _spellings(tok) - {tok.text, tok.stem}
+    return {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())}
 
 
 def _skeleton(piece: str) -> bool:

@@ -118,6 +118,15 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "col:view")
             if _looks_like_id(col, analysis):
                 _add(feats, "col:id")
+            if spec.role == "key" and atom is _first_column(step) and _nearly_unique(col, analysis):
+                _add(feats, "key:unique")   # groups of one row: a row's value, or a duplicate's sum
+            if analysis.wh_head in analysis.row_words and atom.quality == "none" \
+                    and atom is _first_column(step):
+                # "which journal …" of journals.csv: a row, named by the rows' own name column
+                if spec.role == "key":
+                    _add(feats, "key.rows_asked")
+                elif spec.role == "values" and col.name == _row_name_column(analysis):
+                    _add(feats, "values.row_name")
             if atom.covers:
                 _add(feats, "cover", atom.covers)
             if atom.span and atom.span[0] == analysis.head and spec.head:
@@ -409,6 +418,23 @@ def _looks_like_id(col, analysis: Analysis) -> bool:
     name = col.base.lower()
     return (name == "id" or name.endswith("_id") or name.endswith("id")) and (
         col.distinct >= analysis.table.row_count > 3)
+
+
+ROW_NAME_SHARE = 0.9      # of the rows a column's distinct values number to name them
+UNIQUE_GROUP_ROWS = 1.1   # rows per value at most for a column to group nothing
+
+
+def _nearly_unique(col, analysis: Analysis) -> bool:
+    """Whether a column's values are mostly one row's each (journal titles, district names)."""
+    rows = analysis.table.row_count
+    return rows > 3 and col.distinct * UNIQUE_GROUP_ROWS >= rows
+
+
+def _row_name_column(analysis: Analysis) -> str | None:
+    """The first text column that names nearly every row on its own (a title, a district)."""
+    rows = analysis.table.row_count
+    return next((col.name for col in analysis.table.columns if col.kind == "text"
+                 and col.view is None and col.distinct >= ROW_NAME_SHARE * rows > 0), None)
 
 
 def _add(feats: Features, name: str, value: float = 1.0) -> None:

@@ -286,7 +286,8 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "contains:partial": -0.3, "contains:quoted": 1.0,
     "col:exact": 0.6, "col:partial": 0.0, "col:stem": 0.4, "col:fuzzy": -0.2,
     "col:synonym": 0.2, "col:abbrev": 0.2, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
-    "col:id": -0.6,
+    "col:id": -0.6, "key:unique": -1.5,
+    "key.rows_asked": -1.0, "values.row_name": 1.0,   # "which journal": a title, not a publisher
     "values.col:none": -0.3, "values.col:exact": 0.6,
     "measure.col:none": -0.9, "key.col:none": -0.9, "order.col:none": -1.2,
     "measure.col:exact": 0.6, "key.col:exact": 0.3,
