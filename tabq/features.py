@@ -120,13 +120,8 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "col:id")
             if spec.role == "key" and atom is _first_column(step) and _nearly_unique(col, analysis):
                 _add(feats, "key:unique")   # groups of one row: a row's value, or a duplicate's sum
-            if analysis.wh_head in analysis.row_words and atom.quality == "none" \
-                    and atom is _first_column(step):
-                # "which journal …" of journals.csv: a row, named by the rows' own name column
-                if spec.role == "key":
-                    _add(feats, "key.rows_asked")
-                elif spec.role == "values" and col.name == _row_name_column(analysis):
-                    _add(feats, "values.row_name")
+            if atom is _first_column(step) and _rows_named(analysis):
+                feats.update(_rows_asked(analysis, step, spec.role, atom))
             if atom.covers:
                 _add(feats, "cover", atom.covers)
             if atom.span and atom.span[0] == analysis.head and spec.head:
@@ -428,6 +423,35 @@ def _nearly_unique(col, analysis: Analysis) -> bool:
     """Whether a column's values are mostly one row's each (journal titles, district names)."""
     rows = analysis.table.row_count
     return rows > 3 and col.distinct * UNIQUE_GROUP_ROWS >= rows
+
+
+def _rows_asked(analysis: Analysis, step: Step, role: str, atom: Atom) -> Features:
+    """When the question names the table's rows ("which journal …", "the 3 most cited
+    journals" of journals.csv), it asks for rows, named by the rows' own name column: not a
+    group of another column, nor the measure that orders them."""
+    if role == "key" and analysis.wh_head in analysis.row_words and atom.quality == "none":
+        return {"key.rows_asked": 1.0}
+    if role != "values":
+        return {}
+    if atom.quality == "none" and atom.value == _row_name_column(analysis):
+        return {"values.row_name": 1.0}
+    if step.rule == "top_values" or sum(1 for other in step.atoms if other.slot.endswith("COL")
+                                        and other.value == atom.value) > 1:
+        return {"values.rows_as_measure": 1.0}
+    return {}
+
+
+def _rows_named(analysis: Analysis) -> bool:
+    """Whether the question asks for rows by their noun: after "which"/"what", or after a
+    superlative ("the two cheapest journals", "the 3 most cited journals")."""
+    from .prior import CUE_WORDS
+    tokens = analysis.words.tokens
+    for i in analysis.row_words:
+        before = [t.text for t in tokens[max(0, i - 2):i]]
+        if i == analysis.wh_head or (before and (before[-1].endswith("est") or before[-1] in CUE_WORDS
+                                                 or "most" in before or "least" in before)):
+            return True
+    return False
 
 
 def _row_name_column(analysis: Analysis) -> str | None:
