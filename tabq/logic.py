@@ -98,6 +98,17 @@ class Period(Rows):
 
 
 @dataclass(frozen=True)
+class DayOfWeek(Rows):
+    """The rows whose date in `col` falls on an ISO day of the week from `first` to `last`
+    (Monday 1 … Sunday 7): one day, the weekend (6-7) or the working week (1-5)."""
+
+    col: str
+    first: int
+    last: int
+    tag = "day_of_week"
+
+
+@dataclass(frozen=True)
 class And(Rows):
     left: Rows
     right: Rows
@@ -290,7 +301,7 @@ class PeriodTable(Answer):
     year of the date column `col`, in time order: a table for analysts."""
 
     col: str
-    unit: str           # month or year
+    unit: str           # month, year or weekday
     fn: str
     measure: str | None
     rows: Rows
@@ -298,11 +309,29 @@ class PeriodTable(Answer):
     tabular = True
 
 
+@dataclass(frozen=True)
+class PeriodBest(Answer):
+    """The month(s), year(s) or day(s) of the week of the date column `col` whose rows have the
+    largest/smallest fn(measure): with `n` None the best, ties kept; else the n best. Named as
+    a `PeriodTable` names them (a month as year-month text, a year as a number, a day of the
+    week by its English name)."""
+
+    col: str
+    unit: str           # month, year or weekday
+    fn: str
+    measure: str | None
+    n: int | None
+    rows: Rows
+    direction: str
+    tag = "period_best"
+
+
 FORMS: dict[str, type] = {
     cls.tag: cls
-    for cls in (All, Eq, Cmp, Between, Contains, Missing, Period, And, Or, Not, Extreme,
-                Position, Neighbour, InGroups, CmpAgg, Values, Distinct, Aggregate, Difference,
-                WhichOf, GroupBest, GroupTop, TopN, YesNo, GroupTable, Share, PeriodTable)
+    for cls in (All, Eq, Cmp, Between, Contains, Missing, Period, DayOfWeek, And, Or, Not,
+                Extreme, Position, Neighbour, InGroups, CmpAgg, Values, Distinct, Aggregate,
+                Difference, WhichOf, GroupBest, GroupTop, TopN, YesNo, GroupTable, Share,
+                PeriodTable, PeriodBest)
 }
 
 
@@ -399,11 +428,17 @@ def size(form: Form) -> int:
 
 
 # ── English reading ───────────────────────────────────────────────────────────────────────────
+# A period of a date column: its word, its plural, and how the answers name it
+PERIOD_WORDS = {"month": ("month", "months", " (as year-month: months of different years "
+                                             "kept apart)"),
+                "year": ("year", "years", ""), "weekday": ("day of the week", "days of the week",
+                                                           "")}
 OPS = {"gt": "is more than", "lt": "is less than", "ge": "is at least", "le": "is at most"}
 COUNT_OPS = {"gt": "more than", "lt": "fewer than", "ge": "at least", "le": "at most"}
 FN_WORDS = {"count": "the number of rows", "count_distinct": "the number of different",
             "sum": "the total", "avg": "the average", "min": "the lowest", "max": "the highest",
             "median": "the median"}
+DAY_NAMES = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"]
 MONTH_NAMES = ["January", "February", "March", "April", "May", "June", "July", "August",
                "September", "October", "November", "December"]
 
@@ -458,6 +493,12 @@ class _Reader:
         when = " ".join(x for x in (MONTH_NAMES[r.month - 1] if r.month else "",
                                     str(r.year) if r.year else "") if x)
         return f"{self.label(r.col)} is in {when}"
+
+    def c_day_of_week(self, r: DayOfWeek) -> str:
+        first, last = DAY_NAMES[r.first - 1], DAY_NAMES[r.last - 1]
+        days = (first if r.first == r.last else f"{first} or {last}" if r.last == r.first + 1
+                else f"day from {first} to {last}")
+        return f"{self.label(r.col)} falls on a {days}"
 
     def c_in_groups(self, r: InGroups) -> str:
         return f"{self.label(r.key)} {self.having(r, 'has')}"
@@ -553,8 +594,16 @@ class _Reader:
 
     def per_period(self, f: PeriodTable) -> str:
         each = ("each month of {}, as year-month (months of different years kept apart)"
-                if f.unit == "month" else "each year of {}").format(self.label(f.col))
+                if f.unit == "month" else f"each {PERIOD_WORDS[f.unit][0]} of {{}}").format(
+            self.label(f.col))
         return f"{self.agg(f.fn, f.measure)}{self.where(f.rows)}, for {each}"
+
+    def period_best(self, f: PeriodBest) -> str:
+        word, words, named = PERIOD_WORDS[f.unit]
+        which = f"the {word}" if f.n is None else f"the {f.n} {words}"
+        most = "largest" if f.direction == "max" else "smallest"
+        return (f"{which} of {self.label(f.col)}{named} with the {most} "
+                f"{self.agg(f.fn, f.measure).removeprefix('the ')}{self.where(f.rows)}")
 
     def per_group(self, f: GroupTable) -> str:
         return (f"{self.agg(f.fn, f.measure)} for each {self.label(f.key)}{self.where(f.rows)}")

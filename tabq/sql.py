@@ -106,6 +106,13 @@ def _period(rows: L.Period) -> exp.Expression:
     return exp.and_(*parts) if parts else exp.true()
 
 
+def _day_of_week(rows: L.DayOfWeek) -> exp.Expression:
+    day = exp.DayOfWeekIso(this=column(rows.col))
+    if rows.first == rows.last:
+        return exp.EQ(this=day, expression=literal(rows.first))
+    return exp.Between(this=day, low=literal(rows.first), high=literal(rows.last))
+
+
 def _in_groups(rows: L.InGroups) -> exp.Expression:
     # The measure over all the key's rows, each aggregate taking only the rows of `rows`, so a
     # group none of whose rows match still counts 0 ("fewer than 3 late orders").
@@ -131,6 +138,7 @@ _CONDITIONS = {
         expression=exp.Literal.number(0)),
     L.Missing: lambda r: exp.Is(this=column(r.col), expression=exp.Null()),
     L.Period: _period,
+    L.DayOfWeek: _day_of_week,
     L.And: lambda r: exp.and_(condition(r.left), condition(r.right)),
     L.Or: lambda r: exp.Paren(this=exp.or_(condition(r.left), condition(r.right))),
     L.Not: _not,
@@ -260,23 +268,64 @@ def _share(form: L.Share) -> exp.Select:
     return _select(exp.Div(this=part, expression=rows), where=_where(form.within))
 
 
-def _period_key(form: L.PeriodTable) -> exp.Expression:
-    if form.unit == "year":
-        return exp.Year(this=column(form.col))
-    return exp.TimeToStr(this=column(form.col), format=exp.Literal.string("%Y-%m"))
+def _period_key(col: str, unit: str) -> exp.Expression:
+    """A date's period as answers name it: a year (a number), a year-month (text 2024-03) or
+    a day of the week by name (a CASE, not a locale's strftime)."""
+    if unit == "year":
+        return exp.Year(this=column(col))
+    if unit == "weekday":
+        day = exp.DayOfWeekIso(this=column(col))
+        return exp.Case(this=day, ifs=[
+            exp.If(this=literal(i), true=exp.Literal.string(name))
+            for i, name in enumerate(L.DAY_NAMES, start=1)])
+    return exp.TimeToStr(this=column(col), format=exp.Literal.string("%Y-%m"))
+
+
+def _period_order(col: str, unit: str) -> exp.Expression:
+    """The time order of periods grouped by their key: Monday first for days of the week."""
+    if unit == "weekday":
+        return exp.Min(this=exp.DayOfWeekIso(this=column(col)))
+    return exp.Min(this=column(col))
 
 
 def _per_period(form: L.PeriodTable) -> exp.Select:
-    key = _period_key(form)
+    key = _period_key(form.col, form.unit)
     query = _select(key, aggregate(form.fn, form.measure), where=_not_null(form.col, form.rows))
-    return query.group_by(key.copy(), copy=False).order_by(key.copy(), copy=False)
+    order = _period_order(form.col, form.unit) if form.unit == "weekday" else key.copy()
+    return query.group_by(key.copy(), copy=False).order_by(order, copy=False)
+
+
+def _period_best(form: L.PeriodBest) -> exp.Select:
+    # as _group_best: the measure computed once per period, the best picked by a window (ties
+    # kept), or the n best by order; periods listed in time order
+    key = _period_key(form.col, form.unit)
+    per_period = _select(
+        exp.alias_(key, "__k", quoted=True),
+        exp.alias_(_period_order(form.col, form.unit), "__first", quoted=True),
+        exp.alias_(aggregate(form.fn, form.measure), "__m", quoted=True),
+        where=_not_null(form.col, form.rows)).group_by(key.copy(), copy=False)
+    measure, first = exp.column("__m", quoted=True), exp.column("__first", quoted=True)
+    if form.n is not None:
+        best = exp.Ordered(this=measure, desc=form.direction == "max", nulls_first=False)
+        return exp.Select(expressions=[exp.column("__k", quoted=True)]).from_(
+            _paren(per_period).as_("g", quoted=True), copy=False).order_by(
+            best, exp.Ordered(this=first.copy()), copy=False).limit(form.n, copy=False)
+    best_fn = exp.Max if form.direction == "max" else exp.Min
+    ranked = exp.Select(expressions=[
+        exp.column("__k", quoted=True), first, measure,
+        exp.alias_(exp.Window(this=best_fn(this=measure.copy())), "__best", quoted=True)]).from_(
+        _paren(per_period).as_("g", quoted=True), copy=False)
+    is_best = exp.EQ(this=measure.copy(), expression=exp.column("__best", quoted=True))
+    return exp.Select(expressions=[exp.column("__k", quoted=True)]).from_(
+        _paren(ranked).as_("b", quoted=True), copy=False).where(is_best, copy=False).order_by(
+        first.copy(), copy=False)
 
 
 _QUERIES = {
     L.Values: _values, L.Distinct: _distinct, L.Aggregate: _aggregate,
     L.Difference: _difference, L.WhichOf: _which_of, L.GroupBest: _group_best,
     L.GroupTop: _group_top, L.TopN: _top_n, L.YesNo: _yes_no, L.GroupTable: _per_group,
-    L.Share: _share, L.PeriodTable: _per_period,
+    L.Share: _share, L.PeriodTable: _per_period, L.PeriodBest: _period_best,
 }
 
 

@@ -51,6 +51,10 @@ SAMPLES = [
     L.Share("fraction", CHEAP, FENWICK),
     L.PeriodTable("sailed_on", "month", "count", None, L.All()),
     L.PeriodTable("sailed_on", "year", "sum", "fare", FENWICK),
+    L.PeriodTable("sailed_on", "weekday", "count", None, L.DayOfWeek("sailed_on", 1, 5)),
+    L.PeriodBest("sailed_on", "month", "count", None, None, L.All(), "max"),
+    L.PeriodBest("sailed_on", "year", "avg", "fare", 2, L.And(FENWICK, L.DayOfWeek(
+        "sailed_on", 6, 7)), "min"),
 ]
 
 
@@ -199,6 +203,18 @@ def test_paraphrase_of_a_share_says_its_scale():
         "the percentage (0 to 100) of all rows where fare is less than 10")
     assert L.paraphrase(L.Share("fraction", CHEAP, FENWICK)) == (
         'among rows where route is "Fenwick Loop", the fraction (0 to 1) where fare is less than 10')
+
+
+def test_paraphrase_of_a_best_period_names_the_period_and_the_days():
+    text = L.paraphrase(L.PeriodBest("sailed_on", "month", "count", None, None,
+                                     L.DayOfWeek("sailed_on", 6, 7), "max"))
+    assert text == ("the month of sailed_on (as year-month: months of different years kept "
+                    "apart) with the largest number of rows where sailed_on falls on a Saturday "
+                    "or Sunday")
+    text = L.paraphrase(L.PeriodBest("sailed_on", "weekday", "sum", "fare", 3,
+                                     L.DayOfWeek("sailed_on", 1, 5), "min"))
+    assert text == ("the 3 days of the week of sailed_on with the smallest total fare where "
+                    "sailed_on falls on a day from Monday to Friday")
 
 
 def test_paraphrase_of_a_month_table_says_years_stay_apart():

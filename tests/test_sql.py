@@ -104,6 +104,9 @@ def _by(period, rows=ROWS) -> dict:
     return dict(out)
 
 
+WEEK = [D(2024, 1, day).strftime("%A") for day in range(1, 8)]   # 1 January 2024: a Monday
+WEEKDAY_COUNT = {k: len(rs) for k, rs in _by(lambda d: d.strftime("%A")).items()}
+
 FENWICK = L.Eq("route", "Fenwick Loop")
 HARROW = L.Eq("route", "Harrow Spur")
 
@@ -263,6 +266,33 @@ CASES = [
     Case("per_year_sum", L.PeriodTable("sailed_on", "year", "sum", "fare", FENWICK),
          sorted((y, total("fare", rs)) for y, rs in _by(lambda d: d.year, where(fenwick)).items()),
          True),
+    Case("day_of_week_one_day", L.Values("rider", L.DayOfWeek("sailed_on", 1, 1)),
+         values("rider", where(lambda r: r["sailed_on"] and r["sailed_on"].isoweekday() == 1)),
+         True),
+    Case("day_of_week_working_week", L.Aggregate("count", None, L.And(
+        L.DayOfWeek("sailed_on", 1, 5), L.Not(FENWICK))),
+         [len(where(lambda r: r["sailed_on"] and r["sailed_on"].isoweekday() <= 5
+                    and not fenwick(r)))]),
+    Case("period_best_month_count",
+         L.PeriodBest("sailed_on", "month", "count", None, None, L.All(), "max"),
+         best({m: len(rs) for m, rs in _by(lambda d: f"{d.year}-{d.month:02d}").items()}, "max")),
+    Case("period_best_weekday_ties_in_week_order",   # Tuesday and Thursday: one sailing each
+         L.PeriodBest("sailed_on", "weekday", "count", None, None, L.All(), "min"),
+         sorted(best(WEEKDAY_COUNT, "min"), key=WEEK.index), True),
+    Case("period_best_year_sum", L.PeriodBest("sailed_on", "year", "sum", "fare", None, L.All(),
+                                              "min"),
+         best({y: total("fare", rs) for y, rs in _by(lambda d: d.year).items()}, "min")),
+    Case("period_top_months_by_sum",
+         L.PeriodBest("sailed_on", "month", "sum", "fare", 2, L.All(), "max"),
+         [m for m, _ in sorted(((m, rs) for m, rs in _by(
+             lambda d: f"{d.year}-{d.month:02d}").items()),
+             key=lambda kv: (-(total("fare", kv[1]) or 0), min(r["sailed_on"] for r in kv[1])))][:2],
+         True),
+    Case("per_weekday_in_week_order", L.PeriodTable("sailed_on", "weekday", "count", None,
+                                                     L.All()),
+         [(name, len(rs)) for name, rs in sorted(
+             _by(lambda d: d.strftime("%A")).items(),
+             key=lambda kv: WEEK.index(kv[0]))], True),
 ]
 IDS = [case.name for case in CASES]
 
@@ -385,7 +415,8 @@ CROSS_ENGINE = [case for case in CASES if not any(
 def test_cross_engine_sample_is_broad():
     kinds = {type(node) for case in CROSS_ENGINE for node in L.walk(case.form)}
     # periods read dates, which SQLite keeps as text (no YEAR, another STRFTIME)
-    assert kinds == set(L.FORMS.values()) - {L.Period, L.PeriodTable}
+    assert kinds == set(L.FORMS.values()) - {L.Period, L.PeriodTable, L.DayOfWeek,
+                                              L.PeriodBest}
 
 
 @pytest.fixture(scope="module")
