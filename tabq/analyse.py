@@ -90,6 +90,7 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     _value_mentions(words, table, content, col_match, spans, atoms, deadline)
     _number_mentions(words, table, content, spans, atoms)
     _date_part_mentions(words, table, atoms)
+    _day_mentions(words, table, atoms)
     atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content, words)
     for slot, names in OPERATORS.items():
         atoms[slot] = [Atom(slot, name) for name in names]
@@ -248,6 +249,7 @@ def _column_mentions(words, table, content, atoms, deadline=None):
         if span and set(range(*span)) <= days:   # "how many days": the rows, not day numbers
             found[name] = ("none", None)
     _day_of_month(words, table, found)
+    _period_words(words, table, found)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
         if quality == "synonym" and any(c == name for c, _ in values.get(
@@ -266,6 +268,22 @@ def _column_mentions(words, table, content, atoms, deadline=None):
             if slot == "DATECOL" and span:   # a date says its column: "after 8 May"
                 atoms[slot].append(Atom(slot, col.name, None, "none", 0))
     return col_match, spans
+
+
+# Words that name a period of a date: "which month", "the busiest weekday" name the date
+# column whose month or day of the week is asked for, whatever its header says.
+PERIOD_NAMES = frozenset({"month", "months", "monthly", "year", "years", "yearly", "weekday"})
+
+
+def _period_words(words: Words, table: Table, found: dict) -> None:
+    """When the question names no date column, a period word names each (a synonym): its
+    month is asked for. One named ("delivered each month") is the one the period is of."""
+    said = next((i for i, t in enumerate(words.tokens) if t.text in PERIOD_NAMES), None)
+    dates = [col for col in table.columns if col.kind == "date" and col.view is None]
+    if said is None or any(found[col.name][1] for col in dates):
+        return
+    for col in dates:
+        found[col.name] = ("synonym", (said, said + 1))
 
 
 def _header_words(col: Column) -> tuple[list[str], set[str], set[str]]:
@@ -910,6 +928,41 @@ def _date_part_mentions(words: Words, table: Table, atoms) -> None:
         if ops and (parts.get("year") or not date.year):
             atoms["DATE"].append(Atom("DATE", ComparedDate(*astuple(date), ops=ops), span,
                                       "month_day", span[1] - span[0]))
+
+
+# Days of the week said of a date column: ISO days (Monday 1 … Sunday 7) from first to last.
+WEEK_DAYS = {name: (i, i) for i, name in enumerate(
+    ("monday", "tuesday", "wednesday", "thursday", "friday", "saturday", "sunday"), start=1)}
+WEEK_PARTS = {"weekend": (6, 7), "weekday": (1, 5), "workday": (1, 5)}
+# "which weekday", "per weekday", "the busiest weekday": a day of the week asked for, not the
+# working week, which a singular "weekday" names only before a noun or after "on a"
+_DAY_ASKERS = frozenset({"which", "what", "each", "every", "per", "by", "the"})
+
+
+def _day_mentions(words: Words, table: Table, atoms) -> None:
+    """Days of the week ("on Mondays", "Saturday orders"), the weekend and the working week
+    ("weekday orders", "on weekdays") as DAY atoms a date column's day_of_week can take. A
+    singular "weekday" names the day of the week asked for instead ("which weekday is
+    busiest": a period of per_period and period_best), unless "a" or "on" comes before it or a
+    noun after it ("weekday orders")."""
+    if not any(col.kind == "date" for col in table.columns):
+        return
+    tokens = words.tokens
+    for i, token in enumerate(tokens):
+        word = token.text[:-1] if token.text.endswith("s") else token.text
+        days = WEEK_DAYS.get(word) or WEEK_PARTS.get(word)
+        if days is None:
+            continue
+        if token.text == "weekday" and not _working_week(tokens, i):
+            continue
+        atoms["DAY"].append(Atom("DAY", days, (i, i + 1), "day", 1))
+
+
+def _working_week(tokens, i: int) -> bool:
+    before = tokens[i - 1].text if i else ""
+    after = tokens[i + 1] if i + 1 < len(tokens) else None
+    return before in ("a", "on", "any") or (
+        before not in _DAY_ASKERS and after is not None and not after.stop)
 
 
 @dataclass(frozen=True)

@@ -195,7 +195,8 @@ def value_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "ent:floating+col_exact")
         elif atom.slot == "CONTAINS":
             _add(feats, f"contains:{atom.quality}")
-        if atom.slot in ("ENTITY", "CONTAINS", "NUMBER", "DATE", "PERIOD") and atom.covers:
+        if atom.slot in ("ENTITY", "CONTAINS", "NUMBER", "DATE", "PERIOD", "DAY") \
+                and atom.covers:
             _add(feats, "cover", atom.covers)
             if atom.quality == "quoted":
                 _add(feats, "cover:quoted")
@@ -481,7 +482,8 @@ def unexplained(analysis: Analysis, used: frozenset[int], frags: frozenset[str])
     for atom in analysis.atoms.get("NUMBER", []):
         if not set(range(*atom.span)) & used:
             _add(feats, "num:unused")
-    for atom in analysis.atoms.get("PERIOD", []) + analysis.atoms.get("DATE", []):
+    for atom in (analysis.atoms.get("PERIOD", []) + analysis.atoms.get("DATE", [])
+                 + analysis.atoms.get("DAY", [])):
         if not set(range(*atom.span)) & used:
             _add(feats, "date:unused")
     seen = set()

@@ -43,7 +43,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "which_of": (-2.0, {"or": 2.0, "which": 0.8, "who": 0.6, "more": 0.5, "first": 0.3}),
     "group_best": (-1.3, {"which": 0.8, "who": 0.8, "what": 0.3, "most": 1.8, "fewest": 1.8,
                           "least": 1.3, "highest": 0.8, "lowest": 0.8, "largest": 0.8,
-                          "busiest": 1.8, "popular": 1.8, "common": 1.8, "frequent": 1.8,
+                          "busiest": 1.8, "quietest": 1.8, "popular": 1.8, "common": 1.8, "frequent": 1.8,
                           "often": 1.5}),
     "top_n": (-2.5, {"top": 2.8, "best": 1.0, "first": 0.3, "highest": 0.6, "largest": 0.6,
                      "most": 0.5, "bottom": 2.0, "lowest": 0.6}),
@@ -75,6 +75,11 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "per:year": (-1.0, {"year": 2.0, "yearly": 2.0, "annual": 1.5, "annually": 2.0,
                         "by year": 2.5, "per year": 2.5, "each year": 2.5, "every year": 2.5,
                         "a year": 1.0}),
+    # the day of the week asked for ("which weekday", "day of the week"); "weekdays" and
+    # "on a weekday" are the working week (analyse._day_mentions), a condition
+    "per:weekday": (-1.0, {"weekday": 2.0, "day of week": 2.5, "of the week": 2.5,
+                           "per weekday": 2.5, "each weekday": 2.5}),
+    "day_of_week": (0.0, {"on": 0.3}),
     "group:sum": (0.0, {"total": 1.5, "sum": 1.5, "most": 0.6, "overall": 0.5}),
     "group:avg": (-1.6, {"average": 3.6, "mean": 3.3, "avg": 3.6, "typical": 1.5, "per": 0.4}),
     "group:max": (-2.2, {"maximum": 1.8, "max": 1.8, "single": 1.5, "highest": 0.6,
@@ -143,7 +148,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "dir:min": (0.0, {"least": 1.5, "lowest": 1.5, "smallest": 1.5, "fewest": 1.5,
                       "less": 1.0, "fewer": 1.0, "minimum": 1.2, "bottom": 1.2, "worst": 0.8,
                       "shortest": 1.5, "lightest": 1.5, "cheapest": 1.5, "earliest": 1.2,
-                      "first": 0.8, "rarest": 1.5, "rare": 1.2, "min": 1.5, "quickest": 1.5,
+                      "first": 0.8, "rarest": 1.5, "quietest": 1.5, "rare": 1.2, "min": 1.5, "quickest": 1.5,
                       "fastest": 1.2, "youngest": 0.6, "soonest": 1.5}),
 }
 

@@ -25,7 +25,7 @@ OPERATORS = {
     "COUNT": ("count",), "COUNTD": ("count_distinct",), "DISTINCT": ("distinct",),
     "NOT": ("not",), "OR": ("or",), "MISSING": ("missing",), "PRESENT": ("present",),
     "ALL": ("all",), "YESNO": ("yes_no",), "GROUP": ("group",),
-    "SHARE": ("percent", "fraction"), "UNIT": ("month", "year"),
+    "SHARE": ("percent", "fraction"), "UNIT": ("month", "year", "weekday"),
 }
 # The operator slots whose value is a fragment of meaning, and the fragments it may stand for
 # ("{DIR}" is the atom's value, as in `Spec.fragments`): the chart ranks such an atom by the
@@ -86,7 +86,8 @@ def spec_of(alias: str) -> Spec:
 # ── what sub-forms and fillings rules take ───────────────────────────────────────────────────
 def simple(rows: L.Form) -> bool:
     """A row set picked by one condition on cells (not by position or by another set)."""
-    return isinstance(rows, (L.Eq, L.Cmp, L.Between, L.Contains, L.Missing, L.Period))
+    return isinstance(rows, (L.Eq, L.Cmp, L.Between, L.Contains, L.Missing, L.Period,
+                             L.DayOfWeek))
 
 
 def scoped(rows: L.Form) -> bool:
@@ -220,6 +221,12 @@ def between(a, col: str, low: float, high: float) -> L.Rows | None:
 @specify(fragments=("period",), role="datefilter")
 def period(a, col: str, date) -> L.Rows | None:
     return L.Period(col, date.year, date.month)
+
+
+# "on Mondays", "at the weekend", "weekday orders": the day of the week of a date column
+@specify(fragments=("day_of_week",), role="datefilter")
+def day_of_week(a, col: str, days: tuple[int, int]) -> L.Rows | None:
+    return L.DayOfWeek(col, *days)
 
 
 @specify(fragments=("missing",), role="filter")
@@ -564,11 +571,68 @@ def _said_at(a, rows: L.Rows) -> int | None:
 # never added together. Like a date filter's, the column may go unnamed: "per month" says it.
 @specify(fragments=("per_group", "per:{UNIT}", "count"), role="datefilter", accepts=scoped)
 def per_period_count(a, col: str, unit: str, _, rows: L.Rows) -> L.Answer | None:
-    return L.PeriodTable(col, unit, "count", None, rows)
+    return None if _one_period(col, unit, rows) else L.PeriodTable(col, unit, "count", None, rows)
 
 
 @specify(fragments=("per_group", "per:{UNIT}", "group:{AGG}"), role="datefilter",
          accepts=scoped)
 def per_period(a, col: str, unit: str, fn: str, measure: str, rows: L.Rows) -> L.Answer | None:
     # the measure must be named: the date filter's role spares an unnamed column its cost
-    return L.PeriodTable(col, unit, fn, measure, rows) if measure in a.spans else None
+    if measure not in a.spans or _one_period(col, unit, rows):
+        return None
+    return L.PeriodTable(col, unit, fn, measure, rows)
+
+
+def _one_period(col: str, unit: str, rows: L.Rows) -> bool:
+    """Whether the rows already fix the period of `col` that the answer groups by: a year
+    filtered to one year ("which month of 2023" is no year), a month to one month, a day of
+    the week to some days."""
+    for node in L.walk(rows):
+        if getattr(node, "col", None) != col:
+            continue
+        if isinstance(node, L.DayOfWeek) and unit == "weekday":
+            return True
+        if isinstance(node, L.Period) and (unit == "year" and node.year is not None
+                                           or unit == "month" and node.month is not None):
+            return True
+    return False
+
+
+# "Which month had the most orders", "the year with the highest total sales", "the 3 busiest
+# months": the periods of a date column picked by a count or a measure, named as the per-period
+# tables name them. Like those, the date column may go unnamed: the period word says it.
+def _period_pick(a, col: str, unit: str, fn: str, measure: str | None, n: int | None,
+                 rows: L.Rows, direction: str) -> L.Answer | None:
+    if _one_period(col, unit, rows) or (measure is not None and measure not in a.spans):
+        return None
+    return L.PeriodBest(col, unit, fn, measure, n, rows, direction)
+
+
+@specify(fragments=("group_best", "per:{UNIT}", "count", "dir:{DIR}"), role="datefilter",
+         accepts=scoped, superlative=True)
+def period_best_count(a, col: str, unit: str, _, rows: L.Rows,
+                      direction: str) -> L.Answer | None:
+    return _period_pick(a, col, unit, "count", None, None, rows, direction)
+
+
+@specify(fragments=("group_best", "per:{UNIT}", "group:{AGG}", "dir:{DIR}"), role="datefilter",
+         accepts=scoped, superlative=True)
+def period_best(a, col: str, unit: str, fn: str, measure: str, rows: L.Rows,
+                direction: str) -> L.Answer | None:
+    return _period_pick(a, col, unit, fn, measure, None, rows, direction)
+
+
+@specify(fragments=("group_top", "per:{UNIT}", "count", "dir:{DIR}"), role="datefilter",
+         accepts=scoped, superlative=True)
+def period_top_count(a, col: str, unit: str, n: float, _, rows: L.Rows,
+                     direction: str) -> L.Answer | None:
+    n = _count_n(n)
+    return n and _period_pick(a, col, unit, "count", None, n, rows, direction)
+
+
+@specify(fragments=("group_top", "per:{UNIT}", "group:{AGG}", "dir:{DIR}"), role="datefilter",
+         accepts=scoped, superlative=True)
+def period_top(a, col: str, unit: str, n: float, fn: str, measure: str, rows: L.Rows,
+               direction: str) -> L.Answer | None:
+    n = _count_n(n)
+    return n and _period_pick(a, col, unit, fn, measure, n, rows, direction)
