@@ -117,25 +117,25 @@ def test_the_n_busiest_months(bookings, frame):
 
 # ── conditions on the day of the week ─────────────────────────────────────────────────────────
 def test_count_on_one_day(bookings, frame):
-    expected = [int((frame.booked_for.dt.dayofweek == 5).sum())]   # pandas: Saturday is 5
+    expected = [int((frame.booked_for.dt.day_of_week == 5).sum())]   # pandas: Saturday is 5
     check(bookings, "How many bookings were for Saturdays?", expected)
 
 
 def test_none_on_a_closed_day(bookings, frame):
-    expected = ["yes" if (frame.booked_for.dt.dayofweek == 1).any() else "no"]   # pandas
+    expected = ["yes" if (frame.booked_for.dt.day_of_week == 1).any() else "no"]   # pandas
     check(bookings, "Were any bookings made for a Tuesday?", expected)
 
 
 def test_weekend_and_working_week(bookings, frame):
-    weekend = frame.booked_for.dt.dayofweek >= 5                # pandas: Saturday, Sunday
+    weekend = frame.booked_for.dt.day_of_week >= 5                # pandas: Saturday, Sunday
     check(bookings, "How many bookings were at the weekend?", [int(weekend.sum())])
     check(bookings, "How many weekday bookings were there?", [int((~weekend).sum())])
 
 
 def test_a_day_composes_with_another_condition(bookings, frame):
-    mask = (frame.booked_for.dt.dayofweek == 4) & (frame.refunded == "yes")   # pandas
+    mask = (frame.booked_for.dt.day_of_week == 4) & (frame.refunded == "yes")   # pandas
     check(bookings, "How many refunded bookings were there on Fridays?", [int(mask.sum())])
-    sunday = frame.booked_for.dt.dayofweek == 6
+    sunday = frame.booked_for.dt.day_of_week == 6
     expected = [frame.fare[sunday].sum()]                      # pandas: sum over Sundays
     check(bookings, "What was the total fare of Sunday bookings?", expected)
 
