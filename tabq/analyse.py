@@ -19,7 +19,7 @@ from rapidfuzz import fuzz
 from . import codes
 from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table, ident
-from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS
+from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS, related
 from .rules import OPERATORS
 from .text import (MONTHS, DateMention, Words, is_word, normalise, read_question, split_words,
                    stem)
@@ -252,9 +252,10 @@ def _column_mentions(words, table, content, atoms, deadline=None):
     _period_words(words, table, found)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
-        if quality == "synonym" and any(c == name for c, _ in values.get(
+        if quality in ("synonym", "related") and any(c == name for c, _ in values.get(
                 words.tokens[span[0]].text, [])):
             found[name] = ("none", None)
+    _drop_modifiers(found)
     # a comparative or a synonym that names a column is content, though it looks like a cue
     content |= {i for quality, span in found.values() if span and quality != "fuzzy"
                 for i in range(*span) if not words.tokens[i].stop}
@@ -284,6 +285,16 @@ def _period_words(words: Words, table: Table, found: dict) -> None:
         return
     for col in dates:
         found[col.name] = ("synonym", (said, said + 1))
+
+
+def _drop_modifiers(found: dict) -> None:
+    """A word related to a header only by meaning is no mention of it when another column's name
+    follows it: in "the lowest temperature", lowest says which temperature, not a grade."""
+    named = {span[0] for quality, span in found.values()
+             if span and quality not in ("related", "fuzzy", "none")}
+    for name, (quality, span) in list(found.items()):
+        if quality == "related" and span[1] in named:
+            found[name] = ("none", None)
 
 
 def _header_words(col: Column) -> tuple[list[str], set[str], set[str]]:
@@ -336,6 +347,9 @@ def _match_header(header: tuple[list[str], set[str], set[str]], stems: list[str]
     joined = _joined_mention(written, words)
     if joined:
         return joined
+    span = _related_mention(core, written, words)
+    if span:
+        return "related", span
     for i, s in enumerate(stems):
         if len(s) >= 4 and not words.tokens[i].stop and any(
                 len(h) >= 4 and fuzz.ratio(s, h) >= 84 for h in core):
@@ -343,7 +357,36 @@ def _match_header(header: tuple[list[str], set[str], set[str]], stems: list[str]
     return "none", None
 
 
-def _shortened_mention(core: set[str], words: Words) -> tuple[int, int] | None:
+def _related_mention(core: set[str], written: set[str], words: Words) -> tuple[int, int] | None:
+    """The span of a question word that names the header by a word related in meaning
+    (prior.related, from WordNet): heaviest → weight, whole or shortened (wt), pupils →
+    enrollee of enrltot. Tried after every reading of the words' own letters, as it guesses
+    more."""
+    for tok in words.tokens:
+        if not tok.stop and tok.stem[:1].isalnum() and core & _related(tok):
+            return tok.index, tok.index + 1
+    if not any(_related(tok) for tok in words.tokens):
+        return None
+    joined = _joined_mention(written, words, related=True)
+    return _shortened_mention(core, words, related=True) or (joined[1] if joined else None)
+
+
+def _related(tok) -> frozenset[str]:
+    """What a content word may mean by prior.related; a cue word ("total", "number") says an
+    operator, and a degree (heaviest, hotter) its adjective's attribute."""
+    if tok.stop:
+        return frozenset()
+    base = degree_base(tok.text)
+    if base:
+        return related(tok.stem, DEGREE_RELATIONS) | related(base, DEGREE_RELATIONS)
+    return frozenset() if tok.text in CUE_WORDS else related(tok.stem)
+
+
+RELATED_SHORT = 0.6   # a shortening of a related word drops much of it: temp, not year of yearn
+
+
+def _shortened_mention(core: set[str], words: Words, related: bool = False
+                       ) -> tuple[int, int] | None:
     """The span of question words whose shortenings are the header's words, as terse headers
     write them: wt for weight, prcp for precipitation, unitpr for unit price, temp hi for a
     high (or peak, by a synonym) temperature. Every header word must be said, so that one
@@ -355,7 +398,9 @@ def _shortened_mention(core: set[str], words: Words) -> tuple[int, int] | None:
         for h in core:
             if h in said or not h.isalpha():
                 continue
-            if any(_shortens(h, full) for full in _spellings(tok)):
+            if any(_shortens(h, full) for full in _spellings(tok)) or related and any(
+                    _shortens(h, full) and len(h) <= RELATED_SHORT * len(full)
+                    for full in _related(tok)):
                 said[h] = (tok.index, tok.index)
             elif following and following.index - tok.index == 1 and _joins(h, tok, following):
                 said[h] = (tok.index, following.index)   # both words: "population density"
@@ -373,7 +418,8 @@ JOINED_SHARE = 0.4   # of a joined header's letters question words must say for 
 JOINED_MAX = 30      # letters of a joined header read; a longer one is no abbreviation
 
 
-def _joined_mention(written: set[str], words: Words) -> tuple[str, tuple[int, int]] | None:
+def _joined_mention(written: set[str], words: Words, related: bool = False
+                   ) -> tuple[str, tuple[int, int]] | None:
     """A header of abbreviations run together (poptotal, percbelowpoverty, inmetro, basesal)
     named by the question words it is made of: "population" is pop (and total is a filler),
     "metro" is inmetro, "percentage of college graduates" is percollege, "base salary" is
@@ -388,13 +434,21 @@ def _joined_mention(written: set[str], words: Words) -> tuple[str, tuple[int, in
     header = next(iter(written))
     if not (5 <= len(header) <= JOINED_MAX and header.isalpha()):
         return None
-    content = [t for t in words.tokens if not t.stop and t.text.isalpha() and _joined_spellings(t)]
-    pieces = _header_pieces(header, content)
+    if related:   # a unit closing the header (distkm) needs no word, as in a header of words
+        header = next((header[:-len(u)] for u in UNIT_WORDS if len(u) > 1 and u.isalpha()
+                       and header.endswith(u) and len(header) - len(u) >= 4), header)
+    content = [t for t in words.tokens
+               if not t.stop and t.text.isalpha() and _joined_spellings(t, related)]
+    pieces = _header_pieces(header, content, related)
     if all(kind == "filler" for _, _, kind in pieces):
         return None
     at = sorted({tok.index for tok, _, _ in pieces if tok is not None})
-    if sum(k for _, k, _ in pieces) == len(header) and at[-1] - at[0] <= 2:
+    if at[-1] - at[0] > 2:   # a filler said far off ("pupils … in total") is no part of it
+        at = sorted({tok.index for tok, _, kind in pieces if tok is not None and kind != "filler"})
+    if sum(k for _, k, _ in pieces) == len(header) and at and at[-1] - at[0] <= 2:
         return "abbrev", (at[0], at[-1] + 1)
+    if related:   # a share of the letters said by a related word is a guess on a guess
+        return None
     said = [(tok, k) for tok, k, kind in pieces if kind == "word"]
     if said and sum(k for _, k in said) >= JOINED_SHARE * len(header):
         tok = max(said, key=lambda piece: piece[1])[0]
@@ -402,7 +456,8 @@ def _joined_mention(written: set[str], words: Words) -> tuple[str, tuple[int, in
     return None
 
 
-def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
+def _header_pieces(header: str, content: list, related: bool = False
+                   ) -> list[tuple[object, int, str]]:
     """The best reading of a joined header as pieces (question token or None, letters, kind):
     most letters explained, then most said by question words (not as fillers, then at all),
     then fewest pieces. A piece is a "word": a question word (or its stem) of at least 4
@@ -420,10 +475,13 @@ def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
         letters, said, spoken, count, pieces = best[i]
         options = [(None, len(f), "filler") for f in JOINED_FILLERS if header.startswith(f, i)]
         for tok in content:
-            for spelling in _joined_spellings(tok):
+            # a related word's start must drop much of it: temp of temperature, not bran(d)
+            extra = _related_pieces(tok) if related else set()
+            for spelling in _joined_spellings(tok, related):
                 common = _common_start(header, i, spelling)
                 options += [(tok, k, "word" if k >= 4 else "weak") for k in range(3, common + 1)
-                            if (k == len(spelling) and k >= 4) or i == 0 or i + k == n]
+                            if (k == len(spelling) and k >= 4) or (i == 0 or i + k == n) and (
+                                spelling not in extra or k <= RELATED_SHORT * len(spelling))]
                 options += [(tok, k, "weak") for k in range(3, 6) if i + k <= n
                             and (i == 0 or i + k == n) and _skeleton(header[i:i + k])
                             and _shortens(header[i:i + k], spelling)]
@@ -440,13 +498,23 @@ def _header_pieces(header: str, content: list) -> list[tuple[object, int, str]]:
     return best[n][4]
 
 
-def _joined_spellings(tok) -> set[str]:
+def _joined_spellings(tok, related: bool = False) -> set[str]:
     """What a question word may say inside a joined header. A cue or a superlative says it only
     through the words it stands for ("expensive" → price of libprice): its own start would be
     any word's (lar of largest is no part of dollars)."""
+    extra = _related_pieces(tok) if related else set()
     if tok.text in CUE_WORDS or tok.text.endswith("est"):
-        return _spellings(tok) - {tok.text, tok.stem}
-    return {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())}
+        return _spellings(tok) - {tok.text, tok.stem} | extra
+    return {tok.text, tok.stem, *SYNONYMS.get(tok.stem, ())} | extra
+
+
+DEGREE_RELATIONS = ("attr",)
+
+
+def _related_pieces(tok) -> set[str]:
+    """The related words a question word may say inside a joined header: of 4 letters or more,
+    as a shorter one would be a guess on a guess (tot, to tot up, in enrltot is no total)."""
+    return {w for w in _related(tok) if len(w) >= 4}
 
 
 def _skeleton(piece: str) -> bool:

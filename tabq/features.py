@@ -507,7 +507,7 @@ def _asked_measure(analysis: Analysis) -> tuple[int, int] | None:
         return None
     for name, span in analysis.spans.items():
         if span[0] == analysis.head and analysis.col_match.get(name) in (
-                "exact", "stem", "abbrev", "partial") \
+                "exact", "stem", "abbrev", "partial", "related") \
                 and _is_quantity(analysis.table.column(name), analysis, span):
             return span
     return None
@@ -517,9 +517,12 @@ def _is_quantity(col, analysis: Analysis, span: tuple[int, int]) -> bool:
     """Whether "how many <word>" asks for a number column's amount: "goals" with a goals column
     does, "tickets" with a ticket column (one ticket a row, its number) counts rows. The
     question's word must be the header's word as written, plural for plural, or end a header
-    of joined words as written ("adults" of popadults)."""
+    of joined words as written ("adults" of popadults), or name it by meaning ("pupils" of
+    enrltot)."""
     if col.kind != "number":
         return False
+    if analysis.col_match.get(col.name) == "related":
+        return True   # "how many pupils" of enrltot: the header's meaning, not its letters
     said = analysis.words.tokens[span[0]].text
     return any(word == said or (len(said) >= 4 and word.endswith(said))
                for word in split_words(header_text(col)))

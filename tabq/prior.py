@@ -8,6 +8,9 @@ starts from this prior and can overrule any of it.
 
 from __future__ import annotations
 
+from functools import lru_cache
+from importlib import resources
+
 from . import featurenames
 from .text import split_words, stem
 
@@ -250,6 +253,32 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
 }
 
 
+# Words related by meaning, read from WordNet 3.0 by tools/make_related.py (data/related.tsv):
+# an adjective's attribute (heavy → weight), derived words (cite → citation), synonyms (pupil →
+# student), a noun's broader word (student → enrollee). Weaker than SYNONYMS, which a person
+# checked; analyse tries them only when no header is named otherwise (quality "related").
+RELATIONS = ("attr", "deriv", "syn", "hyper")
+
+
+@lru_cache(maxsize=len(RELATIONS))
+def _related_table(relations: tuple[str, ...]) -> dict[str, frozenset[str]]:
+    text = (resources.files("tabq") / "data" / "related.tsv").read_text("utf-8")
+    table: dict[str, set[str]] = {}
+    for line in text.splitlines():
+        if line.startswith("#"):
+            continue
+        relation, key, related = line.split("\t")
+        if relation in relations:
+            table.setdefault(key, set()).update(related.split())
+    return {key: frozenset(words) for key, words in table.items()}
+
+
+def related(word_stem: str, relations: tuple[str, ...] = RELATIONS) -> frozenset[str]:
+    """The header stems a question stem may mean by WordNet (heavi → weight, cite → citat), by
+    the relations asked: an adjective's degree ("longest") means its attribute, not what the
+    verb "to long" is a synonym of."""
+    return _related_table(relations).get(word_stem, frozenset())
+
 # Header words that say a column holds what a wh-word asks for: a date, a place, a person.
 # A "who" column may also be told by its values (people's names, see analyse).
 _WH_WORDS = {
@@ -290,7 +319,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "ent:floating+col_exact": 0.5,
     "contains:partial": -0.3, "contains:quoted": 1.0,
     "col:exact": 0.6, "col:partial": 0.0, "col:stem": 0.4, "col:fuzzy": -0.2,
-    "col:synonym": 0.2, "col:abbrev": 0.2, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
+    "col:synonym": 0.2, "col:abbrev": 0.2, "col:related": 0.0, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
     "col:id": -0.6, "key:unique": -1.5,
     "key.rows_asked": -1.0, "values.row_name": 1.0,   # "which journal": a title, not a publisher
     "values.rows_as_measure": -1.0,  # "the 3 most cited journals": titles, not citation counts

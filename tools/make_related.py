@@ -30,6 +30,8 @@ from pathlib import Path
 POS = {"noun": "n", "verb": "v", "adj": "a", "adv": "r"}
 SENSES = {"n": 2, "v": 2, "a": 3}   # a word's commonest senses kept; rarer ones are noise
 RELATIONS = ("attr", "deriv", "syn", "hyper")
+MINOR_USE = 0.2   # of a word's tagged uses below which its part of speech is left out
+SS_TYPES = {"1": "n", "2": "v", "3": "a", "4": "r", "5": "a"}   # in sense keys
 
 
 @dataclass
@@ -90,6 +92,25 @@ def read_exceptions(folder: Path) -> dict[str, set[str]]:
     return bases
 
 
+def read_uses(folder: Path) -> dict[str, dict[str, int]]:
+    """How often each lemma was tagged as each part of speech (cntlist.rev: sense key, sense
+    number, count; the key's digit after % is the part of speech)."""
+    uses: dict[str, dict[str, int]] = defaultdict(lambda: defaultdict(int))
+    with open(folder / "cntlist.rev", encoding="utf-8") as f:
+        for line in f:
+            key, _, count = line.split()
+            lemma, rest = key.split("%")
+            uses[lemma][SS_TYPES[rest[0]]] += int(count)
+    return uses
+
+
+def minor(uses: dict[str, dict[str, int]], lemma: str, pos: str) -> bool:
+    """Whether a lemma is seldom this part of speech: a question's "take" is the verb, not the
+    noun (takings) whose synonym is "return"; one stem stands for both."""
+    counts = uses.get(lemma)
+    return bool(counts) and counts.get(pos, 0) < MINOR_USE * max(counts.values())
+
+
 def read(folder: Path) -> tuple[dict, dict, dict]:
     """All synsets by (pos, offset), each lemma's offsets by pos, and the lemmas seen in the
     tagged corpus by pos."""
@@ -112,17 +133,20 @@ def read(folder: Path) -> tuple[dict, dict, dict]:
     return synsets, senses, tagged
 
 
-def relations(synsets: dict, senses: dict, tagged: dict[str, set[str]]
-              ) -> dict[str, dict[str, set[str]]]:
-    """relation → question lemma → related lemmas, over each lemma's commonest senses."""
+def relations(synsets: dict, senses: dict, tagged: dict[str, set[str]],
+              uses: dict[str, dict[str, int]] | None = None) -> dict[str, dict[str, set[str]]]:
+    """relation → question lemma → related lemmas, over each lemma's commonest senses of the
+    parts of speech it is mostly used as."""
     out: dict[str, dict[str, set[str]]] = {r: defaultdict(set) for r in RELATIONS}
     for pos, keep in SENSES.items():
         for lemma, offsets in senses[pos].items():
+            if uses and lemma in tagged[pos] and minor(uses, lemma, pos):
+                continue
             # a broader word only for a word that is only a noun: found (to found) is no meal
             only_noun = pos == "n" and not any(lemma in senses[p] for p in "va")
             for n, offset in enumerate(offsets[:keep]):
                 _relate(lemma, synsets[(pos, offset)], synsets, out, n == 0, only_noun,
-                        lemma in tagged[pos], senses[pos])
+                        lemma in tagged[pos], senses[pos], uses or {})
     return out
 
 
@@ -136,7 +160,8 @@ def add_exceptions(table: dict[str, dict[str, set[str]]], bases: dict[str, set[s
 
 
 def _relate(lemma: str, s: Synset, synsets: dict, out: dict, first: bool,
-            only_noun: bool, seen: bool, senses: dict[str, list[str]]) -> None:
+            only_noun: bool, seen: bool, senses: dict[str, list[str]],
+            uses: dict[str, dict[str, int]]) -> None:
     me = s.words.index(lemma) + 1 if lemma in s.words else 0
     heads = [s] + [synsets[(p, t)] for sym, t, p, _, _ in s.pointers if sym == "&" and s.pos == "s"]
     for head in heads:   # a satellite adjective (hefty) has its head's attribute (weight)
@@ -155,24 +180,30 @@ def _relate(lemma: str, s: Synset, synsets: dict, out: dict, first: bool,
         return
     if s.pos == "n":   # words whose first sense this is mean one another: spending ↔ outlay
         for word in s.words:
-            if senses.get(word, [None])[:1] == [s.offset]:
+            if senses.get(word, [None])[:1] == [s.offset] and not minor(uses, word, "n"):
                 out["syn"][word] |= set(s.words) - {word}
     elif s.pos == "v":
         out["syn"][lemma] |= set(s.words) - {lemma}
 
 
-def stemmed(table: dict[str, dict[str, set[str]]], common: set[str] | None = None
-            ) -> list[tuple[str, str, list[str]]]:
+def stemmed(table: dict[str, dict[str, set[str]]], common: set[str] | None = None,
+            uses: dict[str, dict[str, int]] | None = None) -> list[tuple[str, str, list[str]]]:
     """Rows keyed by tabq's stems; multi-word lemmas and a word's own stem dropped, and but for
     attributes, words outside `common` (the tagged lemmas), which questions and headers seldom
     use (fiat, rescript)."""
     from tabq.text import stem
+    total = {lemma: sum(counts.values()) for lemma, counts in (uses or {}).items()}
+    most: dict[str, int] = defaultdict(int)   # stem → uses of its most used lemma
+    for lemma, n in total.items():
+        most[stem(lemma)] = max(most[stem(lemma)], n)
     rows: dict[tuple[str, str], set[str]] = defaultdict(set)
     for relation, by_lemma in table.items():
         for lemma, related in by_lemma.items():
             if not _plain(lemma) or relation != "attr" and common is not None \
                     and lemma not in common:
                 continue
+            if total.get(lemma, 0) < MINOR_USE * most[stem(lemma)]:
+                continue   # takings shares take's stem, but a question's "take" is the verb
             key = stem(lemma)
             rows[(relation, key)] |= {stem(w) for w in related if _plain(w) and (
                 relation == "attr" or common is None or w in common)} - {key}
@@ -188,10 +219,11 @@ def main(argv: list[str]) -> None:
     target = Path(argv[2]) if len(argv) > 2 else \
         Path(__file__).resolve().parents[1] / "tabq" / "data" / "related.tsv"
     synsets, senses, tagged = read(folder)
-    table = relations(synsets, senses, tagged)
+    uses = read_uses(folder)
+    table = relations(synsets, senses, tagged, uses)
     exceptions = read_exceptions(folder)
     add_exceptions(table, exceptions)
-    rows = stemmed(table, set().union(*tagged.values()) | set(exceptions))
+    rows = stemmed(table, set().union(*tagged.values()) | set(exceptions), uses)
     with open(target, "w", encoding="utf-8") as f:
         f.write("# relation\tquestion stem\theader stems; from WordNet 3.0 (WORDNET-LICENSE), "
                 "by tools/make_related.py\n")
