@@ -376,10 +376,11 @@ def _related(tok) -> frozenset[str]:
     operator, and a degree (heaviest, hotter) its adjective's attribute."""
     if tok.stop:
         return frozenset()
+    own = related(tok.stem)
     base = degree_base(tok.text)
-    if base:
-        return related(tok.stem, DEGREE_RELATIONS) | related(base, DEGREE_RELATIONS)
-    return frozenset() if tok.text in CUE_WORDS else related(tok.stem)
+    if base and not own:   # a regular degree (longest); "number" is a word of its own, no numb
+        return related(base, DEGREE_RELATIONS)
+    return related(tok.stem, DEGREE_RELATIONS) if tok.text in CUE_WORDS else own
 
 
 RELATED_SHORT = 0.6   # a shortening of a related word drops much of it: temp, not year of yearn
