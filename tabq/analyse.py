@@ -338,7 +338,8 @@ def _match_header(header: tuple[list[str], set[str], set[str]], stems: list[str]
         if words.tokens[i].stop or not s[0].isalnum():
             continue
         base = degree_base(words.tokens[i].text)
-        if any(h in SYNONYMS.get(s, ()) or (base and (h == base or h in SYNONYMS.get(base, ())))
+        if any(h in SYNONYMS.get(s, ()) or (base and (h in (base, _y_noun(base))
+                                                      or h in SYNONYMS.get(base, ())))
                for h in core):
             return "synonym", (i, i + 1)
     shortened = _shortened_mention(core, words)
@@ -556,6 +557,15 @@ def _joins(short: str, first, second) -> bool:
                for k in range(2, len(short) - 1)
                if any(_shortens(short[k:], w) or short[k:] == w
                       for w in (second.text, second.stem)))
+
+
+def _y_noun(base: str) -> str:
+    """The noun under an adjective in -y, as its comparative's base has it: windi (windier) →
+    wind, sunni → sun; other bases are returned as they are."""
+    if len(base) >= 5 and base.endswith("i"):
+        noun = base[:-1]
+        return noun[:-1] if noun[-1] == noun[-2] and noun[-1] not in "aeiousl" else noun
+    return base
 
 
 def degree_base(word: str) -> str | None:

@@ -197,9 +197,10 @@ for _key in list(STRONG_CUES):  # max/min words are also explained by superlativ
         STRONG_CUES[_key] |= {"max", "extreme:max", "dir:max"}
     if STRONG_CUES[_key] & {"min", "extreme:min", "dir:min"}:
         STRONG_CUES[_key] |= {"min", "extreme:min", "dir:min"}
-    # an aggregate's words are also explained by it measuring groups ("total" per month)
-    STRONG_CUES[_key] |= {f"group:{fn}" for fn in ("sum", "avg", "min", "max", "median")
-                          if fn in STRONG_CUES[_key]}
+    # an aggregate's words are also explained by it measuring groups ("total" per month) or
+    # by a comparison with it ("windier than the average")
+    STRONG_CUES[_key] |= {f"{use}:{fn}" for fn in ("sum", "avg", "min", "max", "median")
+                          if fn in STRONG_CUES[_key] for use in ("group", "than")}
 
 # Words that ask for an operation rather than naming a column or value.
 CUE_WORDS = frozenset(
@@ -227,7 +228,7 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "heavi": ("weight", "mass"), "weigh": ("weight", "mass"), "weight": ("mass",),
     "light": ("weight", "mass"), "short": ("length", "durat", "height"),
     "cheap": ("price", "cost", "fee"), "expens": ("price", "cost", "fee"),
-    "costli": ("price", "cost"), "pricey": ("price", "cost"), "pric": ("price", "cost"),
+    "costli": ("price", "cost"), "pricey": ("price", "cost"), "prici": ("price", "cost"), "pric": ("price", "cost"),
     "young": ("age",), "new": ("date", "year"), "recent": ("date", "year"),
     "earli": ("date", "time", "year"), "late": ("date", "time", "year"),
     "fast": ("time", "speed", "durat"), "quick": ("time", "durat"), "slow": ("time", "durat"),

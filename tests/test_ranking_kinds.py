@@ -111,3 +111,18 @@ def test_which_have_lists_the_distinct_values(table, frame):
     assert 1 < len(expected)
     assert matches(_ask(table, "Which shops have deliveries with no driver recorded?"),
                    expected)
+
+
+def test_a_superlative_names_its_measure(table, frame):
+    priciest = frame.loc[frame.price.idxmax()]
+    assert (frame.price == priciest.price).sum() == 1
+    # pandas: the shop of the priciest delivery ("priciest" → price, not the shop with most rows)
+    assert matches(_ask(table, "What shop got the priciest delivery?"), [priciest.shop])
+
+
+def test_the_average_compared_with_is_explained(table, frame):
+    shop = frame[frame.shop == "Rye House"]
+    # pandas: Rye House deliveries priced above the mean price of all deliveries
+    expected = int((shop.price > frame.price.mean()).sum())
+    assert matches(_ask(table, "How many Rye House deliveries had a price above the overall "
+                               "average?"), [expected])
