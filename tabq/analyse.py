@@ -876,7 +876,7 @@ def _number_mentions(words, table, content, col_spans, atoms):
     for date in words.dates:
         span = (date.start, date.end)
         if date.day and date.month and not date.year and latest:
-            date = replace(date, year=latest)   # "after 12 June": see _latest_year
+            date = replace(date, year=_year_of(table, date.month, date.day) or latest)
         if date.day and date.month and date.year:
             atoms["DATE"].append(Atom("DATE", date, span, "date", 1))
             for col in table.columns:
@@ -889,8 +889,27 @@ def _number_mentions(words, table, content, col_spans, atoms):
         elif date.month:
             atoms["PERIOD"].append(Atom("PERIOD", date, span, "month", span[1] - span[0]))
             if date.year or latest:   # "before October 2024" compares with the month's bounds
-                atoms["DATE"].append(Atom("DATE", replace(date, year=date.year or latest),
+                year = date.year or _year_of(table, date.month) or latest
+                atoms["DATE"].append(Atom("DATE", replace(date, year=year),
                                           span, "month", span[1] - span[0]))
+
+
+def _year_of(table: Table, month: int, day: int | None = None) -> int | None:
+    """The latest year in which a day (or a month) without a year falls inside the span of the
+    table's dates: "after 17 November" of jobs from March 2025 to February 2026 is in 2025.
+    None when it falls in none of their years."""
+    spans = [(str(col.minimum)[:10], str(col.maximum)[:10]) for col in table.columns
+             if col.kind == "date" and col.minimum is not None and col.maximum is not None]
+    spans = [(lo, hi) for lo, hi in spans if lo[:4].isdigit() and hi[:4].isdigit()]
+    if not spans:
+        return None
+    first, last = min(lo for lo, _ in spans), max(hi for _, hi in spans)
+    for year in range(int(last[:4]), int(first[:4]) - 1, -1):
+        start = f"{year:04d}-{month:02d}-{day or 1:02d}"
+        end = f"{year:04d}-{month:02d}-{day or 31:02d}"
+        if start <= last and end >= first:
+            return year
+    return None
 
 
 def _latest_year(table: Table) -> int | None:
