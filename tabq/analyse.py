@@ -105,6 +105,20 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
                     truncated, spans, date_parts=date_parts(table), row_words=row_words)
 
 
+def column_words(analysis: Analysis) -> dict[int, str]:
+    """Content words that name a column by its header, each with the column: a reading that
+    leaves one unused has likely read another column than the one meant. A fuzzy spelling, a
+    synonym ("longest" for a length) or a related word is tabq's guess, not the question
+    naming the column."""
+    named: dict[int, str] = {}
+    for name, span in analysis.spans.items():
+        if analysis.col_match.get(name) not in ("fuzzy", "synonym", "related"):
+            for i in range(*span):
+                if i in analysis.content:
+                    named.setdefault(i, name)
+    return named
+
+
 def _row_words(words: Words, table: Table) -> frozenset[int]:
     """Words that name the table's rows rather than a column: a row noun ("records"), a word
     of the table's own name ("journals") or of its id column's header."""

@@ -9,7 +9,7 @@ from dataclasses import dataclass, field
 
 from . import calibration
 from . import logic as L
-from .analyse import Analysis, OutOfTime, analyse
+from .analyse import Analysis, OutOfTime, analyse, column_words
 from .answers import Denotation
 from .derive import PAIR_BEAM, Item, derive
 from .errors import QueryError
@@ -43,6 +43,7 @@ class Reading:
     is_table: bool = False
     key: tuple = field(default=(), repr=False, compare=False)   # which answer it is
     unused: tuple[str, ...] = ()     # content words of the question the reading does not use
+    unused_columns: tuple[tuple[str, str], ...] = ()   # (word, column) of those naming a column
 
 
 @dataclass
@@ -176,10 +177,16 @@ class OpenTable:
             for name, value in fn(analysis, den).items():
                 feats[name] = feats.get(name, 0.0) + value
         score = self.model.score(feats)
-        unused = tuple(analysis.words.tokens[i].text for i in sorted(analysis.content - item.used))
+        unused = sorted(analysis.content - item.used)
+        named = analysis.cache.get("column_words")
+        if named is None:           # once per question, not per reading
+            named = analysis.cache["column_words"] = column_words(analysis)
+        tokens = analysis.words.tokens
         return Reading(item.form, render(item.form), self._paraphrase(item.form),
                        list(den.values), score, feats, den.error, is_table=den.is_table,
-                       key=_key(self.table, den), unused=unused)
+                       key=_key(self.table, den), unused=tuple(tokens[i].text for i in unused),
+                       unused_columns=tuple((tokens[i].text, named[i]) for i in unused
+                                            if i in named))
 
     def _paraphrase(self, form: L.Answer) -> str:
         cache = self.table.cache.setdefault("paraphrases", {})
@@ -189,24 +196,50 @@ class OpenTable:
 
 
 def unsure_reason(result: Result) -> str | None:
-    """The reason to doubt the top answer, or None. The limits are fitted (tabq/calibration.py);
-    benchmarks/calibrate.py measured other signals too (words no reading uses, a close
-    runner-up, unexplained cue words): none flagged fewer answers at the same precision, so
-    they only say more about a low probability."""
+    """The reason to doubt the top answer, or None: its `sureness` is below the fitted
+    `calibration.SURE_SCORE` (tabq/calibration.py says how each weight was fitted). The reason
+    names what lowered it most first: a close runner-up, or words naming a column the reading
+    ignores; then the words no reading uses, which tabq cannot read at all."""
     best = result.best
     if best is None:
         return "no reading fits"
     if not result.complete:
         return "the search stopped at its time limit"
-    if result.confidence < calibration.SURE_AT:
-        why = f"low probability ({result.confidence:.0%}"
-        if len(result.readings) > 1:
-            why += f", the runner-up {result.readings[1].probability:.0%}"
-        words = never_used(result.candidates)[:MAX_WORDS]
-        return why + ")" + (f"; no reading uses {_quoted(words)}" if words else "")
-    if calibration.IGNORED_WORDS and len(best.unused) >= calibration.IGNORED_WORDS:
-        return f"its reading ignores the words {_quoted(best.unused[:MAX_WORDS])}"
-    return None
+    if sureness(result) >= calibration.SURE_SCORE:
+        return None
+    parts = []          # (how much it lowered the sureness, what it says)
+    if len(result.readings) > 1 and runner_up_gap(result) < calibration.GAP_CAP:
+        parts.append((calibration.GAP_WEIGHT * (calibration.GAP_CAP - runner_up_gap(result)),
+                      f"the runner-up is close ({best.probability:.0%} against "
+                      f"{result.readings[1].probability:.0%})"))
+    if best.unused_columns:
+        named = best.unused_columns[:MAX_WORDS]
+        columns = ", ".join(dict.fromkeys(label(result.table, c) for _, c in named))
+        parts.append((calibration.COLUMN_WORD_WEIGHT * len(best.unused_columns),
+                      f"its reading ignores {_quoted(tuple(w for w, _ in named))}, which "
+                      f"{'names' if len(named) == 1 else 'name'} {columns}"))
+    words = never_used(result.candidates)[:MAX_WORDS]
+    if words:
+        parts.append((0.0, f"no reading uses {_quoted(words)}"))
+    return "; ".join(text for _, text in sorted(parts, key=lambda p: -p[0]))
+
+
+def runner_up_gap(result: Result) -> float:
+    """How far the top answer's score is above the runner-up's (`GAP_CAP` when alone): the
+    softmax keeps it as the log ratio of their probabilities."""
+    if len(result.readings) < 2 or result.readings[1].probability <= 0:
+        return calibration.GAP_CAP
+    gap = math.log(result.readings[0].probability / result.readings[1].probability)
+    return min(calibration.TEMPERATURE * gap, calibration.GAP_CAP)
+
+
+def sureness(result: Result) -> float:
+    """The linear score the unsure flag thresholds: the runner-up's distance (capped), less a
+    weight per question word that names a column the top reading leaves unused."""
+    best = result.best
+    named = len(best.unused_columns) if best else 0
+    return (calibration.GAP_WEIGHT * runner_up_gap(result)
+            - calibration.COLUMN_WORD_WEIGHT * named)
 
 
 def _quoted(words: tuple[str, ...]) -> str:

@@ -13,6 +13,7 @@ import pytest
 
 import tabq
 from tabq import calibration, pipeline
+from tabq import logic as L
 from tabq.answers import matches
 from tabq.output import as_json, format_result
 from tabq.ui.app import TabqApp
@@ -79,7 +80,8 @@ def test_the_unsure_flag_says_why(results):
             assert f"unsure: {result.unsure_reason}." in text
         else:
             assert result.unsure_reason is None and "unsure" not in text
-            assert result.confidence >= calibration.SURE_AT
+        if result.complete:
+            assert result.unsure == (pipeline.sureness(result) < calibration.SURE_SCORE)
 
 
 def test_a_search_cut_short_is_unsure_whatever_its_probability(results):
@@ -149,3 +151,68 @@ def test_eval_reports_accuracy_among_sure_answers_and_predictions_say_how_sure(t
     text = subprocess.run([sys.executable, "-m", "tabq", "eval", str(examples), "--workers", "1"],
                           capture_output=True, text=True, check=False).stdout
     assert "right among answers not flagged unsure: " in text and "flagged unsure " in text
+
+
+# ── the unsure decision itself ──────────────────────────────────────────────────────────────
+def _result(scores: list[float], unused_columns=()) -> pipeline.Result:
+    """A result of one reading per answer with these scores, ranked and weighed as `ask` does."""
+    readings = [pipeline.Reading(form=None, sql=f"q{i}", paraphrase="", answer=[i], score=s,
+                                 features={}, key=(i,)) for i, s in enumerate(scores)]
+    readings[0].unused_columns = tuple(unused_columns)
+    ranked = pipeline._distinct_answers(readings)
+    return pipeline.Result("q", ranked, ranked)
+
+
+def test_the_runner_ups_distance_is_the_score_difference_capped():
+    assert pipeline.runner_up_gap(_result([2.0, 1.25, -1.0])) == pytest.approx(0.75)
+    assert pipeline.runner_up_gap(_result([4.0, -3.0])) == calibration.GAP_CAP
+    assert pipeline.runner_up_gap(_result([1.0])) == calibration.GAP_CAP
+
+
+def test_sureness_weighs_the_distance_and_each_ignored_column_word():
+    result = _result([2.0, 1.5], [("bills", "bill_length_mm"), ("deep", "bill_depth_mm")])
+    assert pipeline.sureness(result) == pytest.approx(
+        calibration.GAP_WEIGHT * 0.5 - 2 * calibration.COLUMN_WORD_WEIGHT)
+
+
+def test_a_close_runner_up_is_flagged_and_says_both_probabilities():
+    close = calibration.SURE_SCORE / calibration.GAP_WEIGHT / 2    # half the distance needed
+    result = _result([1.0, 1.0 - close])
+    p, q = (r.probability for r in result.readings)
+    assert result.unsure_reason == f"the runner-up is close ({p:.0%} against {q:.0%})"
+    far = _result([1.0, 1.0 - 2 * calibration.SURE_SCORE / calibration.GAP_WEIGHT])
+    assert not far.unsure and far.unsure_reason is None
+
+
+def test_an_ignored_column_word_can_flag_an_answer_a_distance_alone_would_not():
+    """The same distance is sure without the ignored word and unsure with it; the reason names
+    the word and the column it names."""
+    gap = (calibration.SURE_SCORE + calibration.COLUMN_WORD_WEIGHT / 2) / calibration.GAP_WEIGHT
+    assert not _result([1.0, 1.0 - gap]).unsure
+    result = _result([1.0, 1.0 - gap], [("bills", "bill_length_mm")])
+    assert result.unsure
+    assert "its reading ignores 'bills', which names bill_length_mm" in result.unsure_reason
+
+
+def test_the_reading_that_ignores_a_named_column_is_the_one_pandas_disagrees_with(penguins_csv):
+    """'longest bills on average': pandas' answer is the species of the highest mean bill
+    length. Of tabq's readings that pick a species by an average, the one averaging
+    bill_length_mm leaves no column word unused and gives pandas' answer; those averaging
+    another measure ignore 'bills', which names a bill column, and give another species."""
+    import pandas as pd
+    frame = pd.read_csv(penguins_csv)
+    means = frame.groupby("species")[["bill_length_mm", "flipper_length_mm", "body_mass_g"]]
+    want = means.mean()["bill_length_mm"].idxmax()
+    table = tabq.open(penguins_csv, model=tabq.Model.prior())
+    result = table.ask("Which species has the longest bills on average?")
+    best_mean = [c for c in result.candidates if isinstance(c.form, L.GroupBest)
+                 and c.form.key == "species" and c.form.fn == "avg"
+                 and isinstance(c.form.rows, L.All) and c.form.direction == "max"]
+    on_bills = [c for c in best_mean if c.form.measure == "bill_length_mm"]
+    elsewhere = [c for c in best_mean if c.form.measure in ("flipper_length_mm", "body_mass_g")]
+    assert len(on_bills) == 1 and elsewhere
+    assert matches(on_bills[0].answer, [want]) and not on_bills[0].unused_columns
+    for c in elsewhere:
+        assert not matches(c.answer, [want])
+        assert [w for w, _ in c.unused_columns] == ["bills"]
+        assert c.unused_columns[0][1].startswith("bill_")
