@@ -5,21 +5,25 @@ zeroshot/penguins (50), zeroshot/ticket_sales (50), zeroshot3/toolhire (34), mon
 (5), monthday/hive_log (16), wtq (619), vocabulary/test (34) questions;
 benchmarks/zeroshot2/ and benchmarks/zeroshot4/ were kept out as the held-out tests. Each family
 of sets (a folder: zeroshot, zeroshot3, monthday, wtq, vocabulary) weighs the same in every fit.
-AGREEMENT: the value whose top answers are right most often (ties to the smaller). TEMPERATURE:
-least log loss of "the top answer is right" against its probability. The unsure flag thresholds
-`pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in score (capped at GAP_CAP) −
-COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores. The two
-weights: logistic regression of "the top answer is right" on those two inputs, one intercept
-per family. SURE_SCORE: the lowest sureness from which the top answers of each of the zeroshot,
-zeroshot3 and monthday families are right at least 95% of the time (on WikiTableQuestions and
-the untaught team words no threshold gets there short of flagging nearly all). GAP_CAP is set,
-not fitted: a runner-up 3 points behind holds under 5% of the top answer's probability.
+AGREEMENT: the value whose top answers are right most often (ties to the smaller). TEMPERATURE
+is kept from its fit of 2026-12-04 at 5ba6539 (least log loss of "the top answer is right"
+against its probability on zeroshot, wtq and vocabulary/test, each file weighing the same): it
+also bounds which candidates a search may skip, which teaching depends on, and the value fitted
+on these families (0.8631) made tests/test_wtq_fixture's taught model fall short. The unsure
+flag thresholds `pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in score (capped at
+GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores.
+The two weights: logistic regression of "the top answer is right" on those two inputs, one
+intercept per family. SURE_SCORE: the lowest sureness from which the top answers of each of the
+zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
+WikiTableQuestions and the untaught team words no threshold gets there short of flagging nearly
+all). GAP_CAP is set, not fitted: a runner-up 3 points behind holds under 5% of the top
+answer's probability.
 Asked at commit 85daf19+ ("+": with uncommitted changes).
 Refit: python benchmarks/calibrate.py --write.
 """
 
 AGREEMENT = 0.0  # weight of the log-sum-exp bonus for other readings giving the same answer
-TEMPERATURE = 0.8631  # answer scores are divided by this before the softmax
+TEMPERATURE = 1.0443  # answer scores are divided by this before the softmax
 GAP_CAP = 3.0  # the runner-up's distance counts up to this much
 GAP_WEIGHT = 1.212  # sureness per point of distance between the top answer and the runner-up
 COLUMN_WORD_WEIGHT = 0.729  # sureness lost per word naming a column the top reading ignores
