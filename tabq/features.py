@@ -449,8 +449,9 @@ def _rows_named(analysis: Analysis) -> bool:
     tokens = analysis.words.tokens
     for i in analysis.row_words:
         before = [t.text for t in tokens[max(0, i - 2):i]]
-        if i == analysis.wh_head or (before and (before[-1].endswith("est") or before[-1] in CUE_WORDS
-                                                 or "most" in before or "least" in before)):
+        superlative = bool(before) and (before[-1].endswith("est") or before[-1] in CUE_WORDS
+                                        or "most" in before or "least" in before)
+        if i == analysis.wh_head or superlative:
             return True
     return False
 
