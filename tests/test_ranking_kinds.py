@@ -126,3 +126,9 @@ def test_the_average_compared_with_is_explained(table, frame):
     expected = int((shop.price > frame.price.mean()).sum())
     assert matches(_ask(table, "How many Rye House deliveries had a price above the overall "
                                "average?"), [expected])
+
+
+def test_money_verbs_name_the_price(table, frame):
+    # pandas: the total price of Oven Door's deliveries ("charged" names price)
+    expected = round(float(frame[frame.shop == "Oven Door"].price.sum()), 2)
+    assert matches(_ask(table, "How much was Oven Door charged altogether?"), [expected])
