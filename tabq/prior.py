@@ -219,7 +219,7 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "peopl": ("popul",), "inhabit": ("popul",), "resid": ("popul",),   # pop of poptotal
     "cost": ("price", "fee", "amount", "charg"), "price": ("cost", "fee", "amount", "fare"),
     "paid": ("price", "amount", "fee", "payment"), "pay": ("price", "amount", "fee", "payment"),
-    "charg": ("fee", "price", "cost", "amount"), "fare": ("price", "fee"),
+    "charg": ("fee", "price", "amount"), "fare": ("price", "fee"),   # billed, not a cost
     "spent": ("amount", "cost", "price"), "spend": ("amount", "cost", "price"),
     "earn": ("revenu", "incom", "salari", "amount", "total"),
     "money": ("amount", "price", "revenu", "total"), "incom": ("revenu", "amount", "total"),
