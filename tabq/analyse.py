@@ -122,12 +122,17 @@ def column_words(analysis: Analysis) -> dict[int, str]:
 def _row_words(words: Words, table: Table) -> frozenset[int]:
     """Words that name the table's rows rather than a column: a row noun ("records"), a word
     of the table's own name ("journals") or of its id column's header."""
-    ids = {stem(w) for col in table.columns if _is_id(col, table)
+    ids = {stem(w) for col in table.columns if is_id(col, table)
            for w in split_words(header_text(col)) if w not in ("id", "no", "number")}
     headers = {stem(w) for col in table.columns for w in split_words(header_text(col))}
     title = {stem(w) for w in split_words(table.title.replace("_", " "))} - headers
     row_nouns = ({stem(w) for w in ROW_NOUNS} - headers) | title | ids
-    return frozenset(t.index for t in words.tokens if not t.stop and t.stem in row_nouns)
+    tokens = words.tokens
+    found = {t.index for t in tokens if not t.stop and t.stem in row_nouns}
+    for first, dash, last in zip(tokens, tokens[1:], tokens[2:]):   # "call-out" of callout
+        if dash.text == "-" and stem(first.text + last.text) in row_nouns:
+            found |= {first.index, last.index}
+    return frozenset(found)
 
 
 def _content_tokens(words: Words, table: Table, row_words: frozenset[int]) -> frozenset[int]:
@@ -140,11 +145,19 @@ def _content_tokens(words: Words, table: Table, row_words: frozenset[int]) -> fr
     )
 
 
-def _is_id(col: Column, table: Table) -> bool:
-    """A column that names each row once ("order_id"): its word names the rows."""
+ID_ENDINGS = ("id", "_no", " no", "_nr", "_ref", "_number")
+_CODE = re.compile(r"[A-Za-z]{1,4}[-_/]?\d{2,}$")   # CW-4012, PB10001: a row's code, not a name
+CODES_READ = 20   # of a column's values checked for the code pattern
+
+
+def is_id(col: Column, table: Table) -> bool:
+    """A column that names each row once, by an id header ("order_id", "order_no") or by code
+    values ("CW-4012"): its word names the rows, and its values are names, not quantities."""
+    if not col.distinct >= table.row_count > 1:
+        return False
     name = col.base.lower()
-    return (name == "id" or name.endswith("_id") or name.endswith(" id")) and (
-        col.distinct >= table.row_count > 1)
+    return name.endswith(ID_ENDINGS) or col.kind == "text" and bool(col.values) and all(
+        _CODE.match(v) for v in col.values[:CODES_READ])
 
 
 def question_grams(question: str) -> tuple[str, ...]:
@@ -594,7 +607,7 @@ def degree_base(word: str) -> str | None:
 
 
 def _slots(col: Column, table: Table) -> list[str]:
-    if col.view and _is_id(table.column(col.base), table):
+    if col.view and is_id(table.column(col.base), table):
         return []   # "BK-0091" holds a number, but it is a name, not a quantity
     slots = []
     if col.view is None:

@@ -17,7 +17,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from . import featurenames
-from .analyse import Analysis, Atom, degree_base, header_text
+from .analyse import Analysis, Atom, degree_base, header_text, is_id
 from .answers import Denotation
 from .text import is_word, split_words, stem
 from .logic import Extreme, Neighbour, Position, walk
@@ -116,7 +116,7 @@ def column_matches(analysis: Analysis, step: Step) -> Features:
             _add(feats, f"{spec.role}.col:{atom.quality}")
             if col.view:
                 _add(feats, "col:view")
-            if _looks_like_id(col, analysis):
+            if is_id(col, analysis.table):
                 _add(feats, "col:id")
             if spec.role == "key" and atom is _first_column(step) and _nearly_unique(col, analysis):
                 _add(feats, "key:unique")   # groups of one row: a row's value, or a duplicate's sum
@@ -410,12 +410,6 @@ def negation_scope(analysis: Analysis, step: Step) -> Features:
     return {"not:gap": float(min(after) - word[1])} if after else {"not:before": 1.0}
 
 
-def _looks_like_id(col, analysis: Analysis) -> bool:
-    name = col.base.lower()
-    return (name == "id" or name.endswith("_id") or name.endswith("id")) and (
-        col.distinct >= analysis.table.row_count > 3)
-
-
 ROW_NAME_SHARE = 0.9      # of the rows a column's distinct values number to name them
 UNIQUE_GROUP_ROWS = 1.1   # rows per value at most for a column to group nothing
 
@@ -430,7 +424,9 @@ def _rows_asked(analysis: Analysis, step: Step, role: str, atom: Atom) -> Featur
     """When the question names the table's rows ("which journal …", "the 3 most cited
     journals" of journals.csv), it asks for rows, named by the rows' own name column: not a
     group of another column, nor the measure that orders them."""
-    if role == "key" and analysis.wh_head in analysis.row_words and atom.quality == "none":
+    if role == "key" and _one_row_described(analysis):
+        return {"key.one_row_described": 1.0}
+    if role == "key" and atom.quality == "none" and analysis.wh_head in analysis.row_words:
         return {"key.rows_asked": 1.0}
     if role != "values":
         return {}
@@ -452,6 +448,19 @@ def _rows_named(analysis: Analysis) -> bool:
         superlative = bool(before) and (before[-1].endswith("est") or before[-1] in CUE_WORDS
                                         or "most" in before or "least" in before)
         if i == analysis.wh_head or superlative:
+            return True
+    return False
+
+
+def _one_row_described(analysis: Analysis) -> bool:
+    """Whether a superlative describes a row by its noun ("the cheapest order", "the most cited
+    journal"): one row, not a group. "The most journals" counts them, so a bare "most" is not
+    one."""
+    tokens = analysis.words.tokens
+    for i in analysis.row_words:
+        before = [t.text for t in tokens[max(0, i - 2):i]]
+        if before and (before[-1].endswith("est") or len(before) == 2 and before[0] in (
+                "most", "least") and not tokens[i - 1].stop):
             return True
     return False
 

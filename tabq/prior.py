@@ -225,10 +225,13 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "money": ("amount", "price", "revenu", "total"), "incom": ("revenu", "amount", "total"),
     "revenu": ("sale", "amount", "price", "incom", "total"), "sale": ("revenu", "amount", "sold"),
     "day": ("date",), "month": ("date",), "week": ("date",),
-    "long": ("durat", "length", "minut", "hour", "day"), "durat": ("minut", "hour", "length"),
+    "long": ("durat", "length", "minut", "hour", "day", "distanc", "dist"),
+    "durat": ("minut", "hour", "length"), "far": ("distanc", "dist"),
     "heavi": ("weight", "mass"), "weigh": ("weight", "mass"), "weight": ("mass",),
-    "light": ("weight", "mass"), "short": ("length", "durat", "height"),
-    "cheap": ("price", "cost", "fee"), "expens": ("price", "cost", "fee"),
+    "light": ("weight", "mass"),
+    "short": ("length", "durat", "height", "distanc", "dist"),
+    "cheap": ("price", "cost", "fee", "charg", "bill"),
+    "expens": ("price", "cost", "fee", "charg", "bill"),
     "costli": ("price", "cost"), "pricey": ("price", "cost"), "prici": ("price", "cost"),
     "pric": ("price", "cost"),
     "young": ("age",), "new": ("date", "year"), "recent": ("date", "year"),
@@ -325,6 +328,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "col:synonym": 0.2, "col:abbrev": 0.2, "col:related": 0.0, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
     "col:id": -0.6, "key:unique": -1.5,
     "key.rows_asked": -1.0, "values.row_name": 1.0,   # "which journal": a title, not a publisher
+    "key.one_row_described": -2.5,   # "the branch of the most expensive job": no branch's sum
     "values.rows_as_measure": -1.0,  # "the 3 most cited journals": titles, not citation counts
     "values.col:none": -0.3, "values.col:exact": 0.6,
     "measure.col:none": -0.9, "key.col:none": -0.9, "order.col:none": -1.2,
