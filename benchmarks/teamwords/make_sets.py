@@ -30,8 +30,10 @@ that combine the words with other filters, groups, comparisons and differences, 
 tables, each with the `words` it uses and the `kind` of combination.
 
 Every answer is computed here by pandas from the expression written beside its question (kept
-in each line's `pandas` field); no answer is typed by hand. The tables come from a seeded numpy
-generator, and a rerun rewrites every file byte for byte the same.
+in each line's `pandas` field); no answer is typed by hand, and a question whose answer stays
+the same when its team words are dropped is refused (a reading that ignores the words would
+pass for right). The tables come from a seeded numpy generator, and a rerun rewrites every file
+byte for byte the same.
 
     python benchmarks/teamwords/make_sets.py
 """
@@ -67,6 +69,14 @@ STATUSES = {"completed": 0.82, "cancelled": 0.09, "no-show": 0.06, "refunded": 0
 # rides per hour of the day (0-23): quiet before dawn, busy at school times and evenings
 HOURS = np.array([3, 2.5, 2, 1.5, 1, 1, 1.5, 4, 6, 4, 3, 3, 3.5, 3, 3, 5, 5, 4.5, 4.5, 4, 4,
                   4.5, 4.5, 3.5])
+# Where and when jobs start, and who drives them, so that a word's rows have leaders of their
+# own (the busiest zone overall is not the one with the most long hauls): zones a job starts
+# in three times as often, the hours of nights out and school runs, drivers who work nights.
+JOB_ZONES = {"airport": ["Juniper Park", "Inchmere"], "night out": ["Culver Quay", "Gannet Wharf"],
+             "school run": ["Dovecote Hill", "Fallowfield"], "hospital": ["Heronsbridge"],
+             "corporate": ["Brackenford"], "wedding": ["Fallowfield"]}
+JOB_HOURS = {"night out": [20, 21, 22, 23, 0, 1, 2, 3], "school run": [7, 8, 15]}
+NIGHT_DRIVERS = ["Rowan Ebbs", "Yusuf Tallis"]
 
 # ---- the team words: (kind, what it means) ... -------------------------------------------
 WORDS = {
@@ -133,17 +143,25 @@ def count_by(d: pd.DataFrame, column: str) -> pd.Series:
     return d.groupby(column).size()
 
 
+def pick(rng: np.random.Generator, weights: dict[str, float], favoured: list[str]) -> str:
+    """One name by its weight, the favoured ones three times as likely."""
+    names = list(weights)
+    p = np.array([weights[n] * (3 if n in favoured else 1) for n in names])
+    return str(rng.choice(names, p=p / p.sum()))
+
+
 def make_rides(path: Path, seed: int, year: int, last_month: int, n: int) -> None:
     rng = np.random.default_rng(seed)
     days = pd.date_range(f"{year}-01-01", f"{year}-{last_month:02d}-01", freq="MS")
     days = pd.date_range(days[0], days[-1] + pd.offsets.MonthEnd(0), freq="D")
     season = np.array([1.35 if 5 <= d.month <= 9 else 1.0 for d in days])
     day_index = np.sort(rng.choice(len(days), size=n, p=season / season.sum()))
-    jobs, drivers = list(JOBS), list(DRIVERS)
+    jobs = list(JOBS)
     rows = []
     for i, day in enumerate(day_index):
-        hour = int(rng.choice(24, p=HOURS / HOURS.sum()))
         job = str(rng.choice(jobs, p=[JOBS[j][0] for j in jobs]))
+        hour = int(rng.choice(JOB_HOURS[job])) if job in JOB_HOURS else \
+            int(rng.choice(24, p=HOURS / HOURS.sum()))
         low, high = JOBS[job][1]
         miles = round(float(rng.uniform(low, high)), 1)
         night = hour < 5
@@ -153,9 +171,9 @@ def make_rides(path: Path, seed: int, year: int, last_month: int, n: int) -> Non
             "ride_no": f"FC-{year % 100}{i + 1:04d}",
             "start_time": f"{days[day].date().isoformat()} {hour:02d}:"
                           f"{int(rng.integers(60)):02d}",
-            "zone": str(rng.choice(list(ZONES), p=list(ZONES.values()))),
+            "zone": pick(rng, ZONES, JOB_ZONES.get(job, [])),
             "job_type": job,
-            "driver": str(rng.choice(drivers, p=list(DRIVERS.values()))),
+            "driver": pick(rng, DRIVERS, NIGHT_DRIVERS if night or hour >= 21 else []),
             "miles": miles,
             "fare": round(fare, 2),
             "wait_min": wait,
@@ -214,8 +232,8 @@ TEACH = [
     ("dead miles", "dead miles in Eastmarsh", T, "dead_miles(d[d.zone == 'Eastmarsh'])"),
     ("dead miles", "dead miles of Nia Holloway", T,
      "dead_miles(d[d.driver == 'Nia Holloway'])"),
-    ("dead miles", "which zone had the most dead miles", T,
-     "ties_max(dead_miles_by(d, 'zone'))"),
+    ("dead miles", "which driver had the fewest dead miles", T,
+     "ties_min(dead_miles_by(d, 'driver'))"),
 ]
 
 # (words, kind of combination, question, table, pandas expression): other values, other
@@ -254,23 +272,24 @@ TEST = [
      "meter money in the river wards in the tourist season", T,
      "meter_money(d[river(d) & tourist(d)])"),
     # a group: which one is best, or a value per group
-    (["long hauls"], "group", "which driver had the most long hauls", T,
-     "ties_max(count_by(d[long_haul(d)], 'driver'))"),
-    (["meter money"], "group", "which zone had the highest meter money", T,
-     "ties_max(meter_money_by(d, 'zone'))"),
-    (["slow pickups"], "group", "which job type had the most slow pickups", T,
-     "ties_max(count_by(d[slow_pickup(d)], 'job_type'))"),
+    (["long hauls"], "group", "which zone had the fewest long hauls", T,
+     "ties_min(count_by(d[long_haul(d)], 'zone'))"),
+    (["meter money"], "group", "which driver had the lowest meter money", T,
+     "ties_min(meter_money_by(d, 'driver'))"),
+    (["slow pickups"], "group", "which zone had the most slow pickups", T,
+     "ties_max(count_by(d[slow_pickup(d)], 'zone'))"),
     (["meter money", "the small hours"], "group",
      "which zone had the lowest meter money in the small hours", T,
      "ties_min(meter_money_by(d[small_hours(d)], 'zone'))"),
-    (["crosstown rides"], "group", "which driver drove the fewest crosstown rides", T,
-     "ties_min(count_by(d[crosstown(d)], 'driver'))"),
+    (["crosstown rides"], "group", "which job type had the most crosstown rides", T,
+     "ties_max(count_by(d[crosstown(d)], 'job_type'))"),
     (["dead miles", "contract work"], "group",
      "which driver had the most dead miles on contract work", T,
      "ties_max(dead_miles_by(d[contract(d)], 'driver'))"),
     # a comparison: which of two, or the groups past a number
-    (["long hauls"], "compare", "which had more long hauls, Inchmere or Eastmarsh", T,
-     "ties_max(count_by(d[long_haul(d) & d.zone.isin(['Inchmere', 'Eastmarsh'])], 'zone'))"),
+    (["long hauls"], "compare", "which had more long hauls, Culver Quay or Juniper Park", T,
+     "ties_max(count_by(d[long_haul(d) & d.zone.isin(['Culver Quay', 'Juniper Park'])],"
+     " 'zone'))"),
     (["slow pickups", "the tourist season"], "compare",
      "which drivers had more than 8 slow pickups in the tourist season", T,
      "sorted(k for k, v in count_by(d[slow_pickup(d) & tourist(d)], 'driver').items() if v > 8)"),
@@ -286,9 +305,9 @@ TEST = [
     (["crosstown rides", "long hauls"], "difference",
      "how many more crosstown rides than long hauls", T, "crosstown(d).sum() - long_haul(d).sum()"),
     (["slow pickups"], "difference",
-     "how many more slow pickups did Maud Pellerin have than Yusuf Tallis", T,
-     "slow_pickup(d[d.driver == 'Maud Pellerin']).sum()"
-     " - slow_pickup(d[d.driver == 'Yusuf Tallis']).sum()"),
+     "how many more slow pickups did Yusuf Tallis have than Maud Pellerin", T,
+     "slow_pickup(d[d.driver == 'Yusuf Tallis']).sum()"
+     " - slow_pickup(d[d.driver == 'Maud Pellerin']).sum()"),
     # last year's rides: the same words on the other table
     (["the river wards"], "filter", "how many rides in the river wards were refunded", L,
      "(river(d) & (d.status == 'refunded')).sum()"),
@@ -305,16 +324,16 @@ TEST = [
      "(crosstown(d) & tourist(d)).sum()"),
     (["contract work", "slow pickups"], "words", "how many slow pickups were contract work", L,
      "(contract(d) & slow_pickup(d)).sum()"),
-    (["dead miles"], "group", "which driver had the most dead miles", L,
-     "ties_max(dead_miles_by(d, 'driver'))"),
+    (["dead miles"], "group", "which zone had the most dead miles", L,
+     "ties_max(dead_miles_by(d, 'zone'))"),
     (["long hauls"], "group", "which driver had the fewest long hauls", L,
      "ties_min(count_by(d[long_haul(d)], 'driver'))"),
     (["meter money", "the tourist season"], "group",
-     "which job type had the highest meter money in the tourist season", L,
-     "ties_max(meter_money_by(d[tourist(d)], 'job_type'))"),
-    (["slow pickups", "the small hours"], "difference",
-     "how many more slow pickups were in the tourist season than in the small hours", L,
-     "(slow_pickup(d) & tourist(d)).sum() - (slow_pickup(d) & small_hours(d)).sum()"),
+     "which driver had the highest meter money in the tourist season", L,
+     "ties_max(meter_money_by(d[tourist(d)], 'driver'))"),
+    (["slow pickups", "the small hours", "the river wards"], "difference",
+     "how many more slow pickups were in the small hours than in the river wards", L,
+     "(slow_pickup(d) & small_hours(d)).sum() - (slow_pickup(d) & river(d)).sum()"),
     (["meter money", "the river wards"], "difference",
      "how much more meter money came from the river wards than from Abbotsgate", L,
      "meter_money(d[river(d)]) - meter_money(d[d.zone == 'Abbotsgate'])"),
@@ -329,11 +348,12 @@ def read(table: str) -> pd.DataFrame:
     return pd.read_csv(HERE / table, parse_dates=["start_time"])
 
 
-def answer_of(expression: str, d: pd.DataFrame) -> list:
+def answer_of(expression: str, d: pd.DataFrame, names: dict | None = None) -> list:
     """The stored answer of one pandas expression on a table, floats to 6 decimals (so that
     sums of money keep no binary noise). No per-group tables: an examples file holds plain
-    values only (tabq.teaching.read_examples refuses a list of rows)."""
-    raw = eval(expression, globals(), {"d": d})   # our own expressions, written above
+    values only (tabq.teaching.read_examples refuses a list of rows). `names` stand in for
+    the word helpers (see WITHOUT_WORDS)."""
+    raw = eval(expression, {**globals(), **(names or {})}, {"d": d})   # our own, above
     answer = six_decimals(to_answer(raw))
     assert answer, f"empty answer: {expression}"
     return answer
@@ -343,11 +363,38 @@ def six_decimals(values: list) -> list:
     return [round(v, 6) if isinstance(v, float) else v for v in values]
 
 
+def every_row(d: pd.DataFrame) -> pd.Series:
+    return pd.Series(True, index=d.index)
+
+
+# The words read as if the team had said nothing: no condition, a measure without its own.
+WITHOUT_WORDS = {
+    **{name: every_row for name in ("river", "contract", "tourist", "small_hours", "crosstown",
+                                    "long_haul", "slow_pickup")},
+    "meter_money": lambda d: d.fare.sum(), "dead_miles": lambda d: d.miles.sum(),
+    "meter_money_by": lambda d, column: d.groupby(column).fare.sum(),
+    "dead_miles_by": lambda d, column: d.groupby(column).miles.sum(),
+}
+
+
+def words_matter(question: str, expression: str, d: pd.DataFrame, answer: list) -> None:
+    """Refuse a question whose answer stays the same when its team words are dropped: a
+    reading that ignores them would pass for right (as "which zone had the most long hauls"
+    would when the busiest zone also has the most long hauls)."""
+    try:
+        naive = answer_of(expression, d, WITHOUT_WORDS)
+    except AssertionError:          # a tie or an empty answer: not the same answer
+        return
+    assert naive != answer, f"the same answer without its words: {question}"
+
+
 def teach_lines(frames: dict[str, pd.DataFrame]) -> list[dict]:
     lines = []
     for number, (word, question, table, expression) in enumerate(TEACH, 1):
+        answer = answer_of(expression, frames[table])
+        words_matter(question, expression, frames[table], answer)
         lines.append({"id": f"teach-{number:02d}", "question": question, "table": table,
-                      "answer": answer_of(expression, frames[table]), "kind": word,
+                      "answer": answer, "kind": word,
                       "word": word, "word_kind": WORDS[word][0], "pandas": expression})
     return lines
 
@@ -359,6 +406,7 @@ def test_lines(frames: dict[str, pd.DataFrame]) -> list[dict]:
         assert (question, table) not in taught, f"a teaching question in the test: {question}"
         assert all(w in WORDS for w in words), words
         answer = answer_of(expression, frames[table])
+        words_matter(question, expression, frames[table], answer)
         if kind == "difference":
             assert answer[0] > 0, f"a difference should read as a positive amount: {question}"
         lines.append({"id": f"test-{number:02d}", "question": question, "table": table,
