@@ -98,6 +98,8 @@ def taught_run(folder: ModelFolder, chosen: list[Job]) -> dict:
             "logged_without_reading": sum(r.query is None for r in report.records),
             "skipped": len(report.skipped),
             "reachable_by_word": {w: f"{r}/{n}" for w, (r, n) in sorted(reached.items())},
+            # a reading that gives the answer need not be the word's: read them
+            "readings_taught": {r.id: r.query for r in report.records if r.query},
             "teach_seconds": round(seconds, 1)}
 
 
@@ -132,7 +134,8 @@ def run(work: Path) -> dict:
         row.update(measure(model, test, teach_jobs, fields))
         runs.append(row)
     imported, trip = round_trip(folder, work)
-    row = {"model": "all, exported and imported", "confirmations": 0, "reachable": 0, **trip}
+    row = {"model": "all, exported and imported", "confirmations": None, "reachable": None,
+           **trip}
     row.update(measure(imported.load(), test, teach_jobs, fields))
     runs.append(row)
     return {"commit": head_commit(), "words": len({j.kind for j in teach_jobs}),
@@ -149,17 +152,22 @@ def head_commit() -> str | None:
     return out.stdout.strip()
 
 
+def shown(value: int | None) -> str:
+    return "—" if value is None else str(value)
+
+
 def table(summary: dict) -> str:
     """The runs as a Markdown table, then each run's breakdown."""
     lines = ["| model | taught | reachable | test right | test acc | oracle | teach-set acc "
              "| clarifying questions |", "|---|---|---|---|---|---|---|---|"]
     for r in summary["runs"]:
-        lines.append(f"| {r['model']} | {r['confirmations']} | {r['reachable']} "
+        lines.append(f"| {r['model']} | {shown(r['confirmations'])} | {shown(r['reachable'])} "
                      f"| {r['test_right']} | {r['test_accuracy']:.1%} | {r['test_oracle']:.1%} "
                      f"| {r['teach_set_accuracy']:.1%} | {r['clarifying_questions_needed']} |")
     for r in summary["runs"]:
         lines.append(f"\n{r['model']}:")
-        for key in ("by_combination", "by_word_kind", "by_word", "reachable_by_word"):
+        for key in ("by_combination", "by_word_kind", "by_word", "reachable_by_word",
+                    "readings_taught"):
             if key in r:
                 lines.append(f"  {key}: " + ", ".join(f"{k} {v}" for k, v in r[key].items()))
         seconds = [f"{k} {r[k]}" for k in ("teach_seconds", "answer_seconds") if k in r]
