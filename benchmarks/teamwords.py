@@ -79,6 +79,8 @@ def measure(model: Model, test: list[Job], teach_jobs: list[Job], fields: dict) 
         "by_combination": {k: f"{r}/{n}" for k, (r, n) in on_test.by_kind.items()},
         "by_word_kind": right_by(on_test, test, {j.id: fields[j.id]["word_kinds"] for j in test}),
         "by_word": right_by(on_test, test, {j.id: fields[j.id]["words"] for j in test}),
+        "right": [j.id for j in test if on_test.predictions[j.id]["answer"]
+                  and matches(on_test.predictions[j.id]["answer"], j.answer)],
         "clarifying_questions_needed": NOT_YET,
         "answer_seconds": round(time.perf_counter() - start, 1),
     }
@@ -170,6 +172,7 @@ def table(summary: dict) -> str:
                     "readings_taught"):
             if key in r:
                 lines.append(f"  {key}: " + ", ".join(f"{k} {v}" for k, v in r[key].items()))
+        lines.append("  right: " + ", ".join(r["right"]))
         seconds = [f"{k} {r[k]}" for k in ("teach_seconds", "answer_seconds") if k in r]
         lines.append("  seconds: " + ", ".join(seconds))
     return "\n".join(lines)
