@@ -369,7 +369,8 @@ def _match_header(header: tuple[list[str], set[str], set[str]], stems: list[str]
                                                       or h in SYNONYMS.get(base, ())))
                for h in core):
             return "synonym", (i, i + 1)
-    shortened = _shortened_mention(core, words)
+    # a stem can spoil a shortening's letters (hwy → hwi): the header as written says it too
+    shortened = _shortened_mention(core, words) or _shortened_mention(written, words)
     if shortened:
         return "abbrev", shortened
     joined = _joined_mention(written, words)

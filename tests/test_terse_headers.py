@@ -101,3 +101,31 @@ def test_a_number_after_which_or_the_counts_the_answers(players, question, expec
 def test_a_measure_adjective_orders_by_the_column_it_names(stations, question, expected):
     frame, table = stations
     assert matches(table.ask(question).answer, [expected(frame)]), question   # pandas
+
+
+@pytest.fixture(scope="module")
+def trips(tmp_path_factory) -> tuple[pd.DataFrame, tabq.OpenTable]:
+    """Headers a stemmer spoils (hwy → hwi, cty → cti) and a header that is only its unit."""
+    rng = np.random.default_rng(1204)
+    n = 40
+    frame = pd.DataFrame({
+        "van": rng.choice(["Elm", "Rook", "Sedge"], n),
+        "cty": rng.integers(9, 30, n),
+        "hwy": rng.integers(14, 44, n),
+        "kg": rng.uniform(50, 900, n).round(1),
+    })
+    path = tmp_path_factory.mktemp("terse") / "vans.csv"
+    frame.to_csv(path, index=False)
+    return frame, tabq.open(path, model=tabq.Model.prior())
+
+
+@pytest.mark.parametrize("question, expected", [
+    ("what is the average highway mileage", lambda f: f.hwy.mean()),
+    ("how many vans do more than 30 on the highway", lambda f: int((f.hwy > 30).sum())),
+    ("what is the lowest city mileage", lambda f: f.cty.min()),
+    ("what is the heaviest load", lambda f: f.kg.max()),
+    ("what is the total weight carried by Rook", lambda f: f.kg[f.van == "Rook"].sum()),
+])
+def test_a_header_spoiled_by_stemming_or_only_a_unit_is_still_named(trips, question, expected):
+    frame, table = trips
+    assert matches(table.ask(question).answer, [expected(frame)]), question   # pandas
