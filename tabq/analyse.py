@@ -167,11 +167,30 @@ def question_grams(question: str) -> tuple[str, ...]:
     return _grams(words) + (f"qtype:{_qtype(words)}",)
 
 
+COMPARATIVE_GRAM = "how much [comparative]"   # how much better / how many more … than
+
+
 def _grams(words: Words) -> tuple[str, ...]:
     stems = [t.stem for t in words.tokens if is_word(t.text) or t.text == "n't"]
     grams = set(stems) | {f"{a} {b}" for a, b in zip(stems, stems[1:])}
     grams |= {f"{a} {b} {c}" for a, b, c in zip(stems, stems[1:], stems[2:])}
+    if _asks_how_much_comparative(words):
+        grams.add(COMPARATIVE_GRAM)
     return tuple(sorted(grams))
+
+
+def _asks_how_much_comparative(words: Words) -> bool:
+    """"How much better …than", "how many fewer … than": a difference, whatever the
+    comparative; one gram for them all, so that no list of adjectives is needed."""
+    texts = [t.text for t in words.tokens]
+    if "than" not in texts:
+        return False
+    for i in range(len(texts) - 2):
+        if texts[i] == "how" and texts[i + 1] in ("much", "many"):
+            word = texts[i + 2]
+            return word in ("more", "less", "fewer", "better", "worse") or bool(
+                word.endswith("er") and degree_base(word))
+    return False
 
 
 def _head(words: Words, openers: tuple[str, ...]) -> int:
@@ -882,6 +901,18 @@ def _unexplained_words(words, found, col_spans, content) -> list[int]:
             and not any(ch.isdigit() for ch in words.tokens[i].text)][:UNEXPLAINED_WORDS]
 
 
+def _joined_column(words: Words, span: tuple[int, int], col_spans: dict) -> str | None:
+    """The column named by the word hyphen-joined after a number ("4-cylinder", "3-bedroom"):
+    the number is that column's value. The word may repeat the one that named the column
+    ("4-cylinder … than 8-cylinder ones"), which is matched once."""
+    tokens = words.tokens
+    if span[1] + 1 >= len(tokens) or tokens[span[1]].text != "-":
+        return None
+    word = tokens[span[1] + 1].stem
+    return next((name for name, (start, end) in col_spans.items()
+                 if any(tokens[i].stem == word for i in range(start, end))), None)
+
+
 def _typed(col: Column, value):
     if col.kind == "bool":
         return {"true": True, "false": False}.get(str(value).lower(), value)
@@ -894,12 +925,13 @@ def _number_mentions(words, table, content, col_spans, atoms):
         span = (number.start, number.end)
         atoms["NUMBER"].append(Atom("NUMBER", number.value, span, "ordinal" if number.ordinal
                                     else "number", 1))
+        joined = _joined_column(words, span, col_spans)
         for col in table.columns:
             named = col_spans.get(col.name)
             beside = named and (0 <= span[0] - named[1] <= 1 or 0 <= named[0] - span[1] <= 1)
             if col.kind == "number" and (beside or _has_value(table, col, number.value)):
                 atoms["ENTITY"].append(Atom("ENTITY", (col.name, _num(number.value)), span,
-                                            "number", 1))
+                                            "compound" if col.name == joined else "number", 1))
     latest = _latest_year(table)
     for date in words.dates:
         span = (date.start, date.end)

@@ -314,6 +314,17 @@ def _plural(word: str) -> bool:
 
 
 @node_feature
+def compound_numbers(analysis: Analysis, step: Step) -> Features:
+    """A number joined to the word that names a column ("4-cylinder") is that column's value
+    (an ENTITY of quality "compound"), not a threshold to compare with."""
+    if not spec_of(step.rule).compares_numbers:
+        return {}
+    compounds = {a.span for a in analysis.atoms.get("ENTITY", []) if a.quality == "compound"}
+    return {"num:compound_compared": 1.0} if any(
+        a.slot == "NUMBER" and a.span in compounds for a in step.atoms) else {}
+
+
+@node_feature
 def comparisons(analysis: Analysis, step: Step) -> Features:
     if not spec_of(step.rule).compares_numbers:
         return {}

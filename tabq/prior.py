@@ -42,7 +42,7 @@ CUES: dict[str, tuple[float, dict[str, float]]] = {
     "difference": (-2.5, {"difference": 3.0, "how many more": 3.0, "how much more": 3.0,
                           "more than": 0.8, "fewer than": 0.8, "less than": 0.5,
                           "how many fewer": 3.0, "how much less": 3.0, "gap": 2.5,
-                          "between": 0.5, "than": 0.8}),
+                          "between": 0.5, "than": 0.8, "how much [comparative]": 3.0}),
     "which_of": (-2.0, {"or": 2.0, "which": 0.8, "who": 0.6, "more": 0.5, "first": 0.3}),
     "group_best": (-1.3, {"which": 0.8, "who": 0.8, "what": 0.3, "most": 1.8, "fewest": 1.8,
                           "least": 1.3, "highest": 0.8, "lowest": 0.8, "largest": 0.8,
@@ -177,8 +177,9 @@ for _fragment in ("avg", "group:avg"):
 
 
 def cue_key(phrase: str) -> str:
-    """A cue phrase as the question grams spell it: stemmed words, or a "qtype:" tag as is."""
-    if phrase.startswith("qtype:"):
+    """A cue phrase as the question grams spell it: stemmed words, or a "qtype:" tag or a
+    "[bracketed]" gram of analyse's own as is."""
+    if phrase.startswith("qtype:") or phrase.endswith("]"):
         return phrase
     return " ".join(stem(w) for w in split_words(phrase))
 
@@ -318,7 +319,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "cover": 1.6,                   # per content word a column, value or number accounts for
     "cover:quoted": 2.0,
     "ent:exact": 1.0, "ent:stem": 0.7, "ent:partial": -1.2, "ent:fuzzy": -0.5,
-    "ent:number": 0.3, "ent:code": 1.2,   # "Ohio" for OH: above a county named OHIO
+    "ent:number": 0.3, "ent:compound": 1.3, "ent:code": 1.2,   # "Ohio" for OH: above a county named OHIO
     "ent:flag": 1.0,                 # "metro counties": inmetro = 1
     "ent:abbrev": 0.3,               # "part-timers": pt
     "ent:floating": -3.5, "ent:floating+col": 1.2,
@@ -341,6 +342,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "dir:unasked": -2.5,             # a most or a least that no word asks for
     "num:counts_things": 1.5,        # "more than 20 late deliveries": a count per group …
     "num:counted_as_amount": -1.5,   # … not a sum of a column
+    "num:compound_compared": -3.0,   # "4-cylinder": cyl = 4, no threshold
     "present:participle": 1.0,
     "share:whole_named": 1.5, "share:whole_as_part": -1.5,   # "of the delivered parcels, …"
     "noun:counted_as_amount": -1.5,  # "the most orders": not order_date, nor any amount of it
