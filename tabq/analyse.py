@@ -12,11 +12,13 @@ import datetime
 import re
 import time
 from collections import Counter, defaultdict
+from collections.abc import Sequence
 from dataclasses import astuple, dataclass, field, replace
 
 from rapidfuzz import fuzz
 
 from . import codes
+from . import logic as L
 from .errors import QueryError, QuestionError
 from .table import ROW, Column, Table, ident
 from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS, related
@@ -75,9 +77,11 @@ class Analysis:
     row_words: frozenset[int] = frozenset()   # words naming the rows ("journal" of journals.csv)
 
 
-def analyse(question: str, table: Table, deadline: float | None = None) -> Analysis:
+def analyse(question: str, table: Table, deadline: float | None = None,
+            team_words: Sequence[L.Defined] = ()) -> Analysis:
     """Find every reading of the question's words against this table; past `deadline` (a
-    time.monotonic() value), raise OutOfTime."""
+    time.monotonic() value), raise OutOfTime. `team_words` are the taught definitions a
+    model offers (definitions.offered): each one said in the question is a TEAMWORD atom."""
     text = question.replace("\x00", " ").strip()
     if not text or not any(ch.isalnum() for ch in text):
         raise QuestionError("the question is empty: ask something about the table")
@@ -91,6 +95,7 @@ def analyse(question: str, table: Table, deadline: float | None = None) -> Analy
     _number_mentions(words, table, content, spans, atoms)
     _date_part_mentions(words, table, atoms)
     _day_mentions(words, table, atoms)
+    atoms["TEAMWORD"] = _team_word_mentions(words, table, content, team_words)
     atoms["ENTITY"] += _with_column_words(atoms["ENTITY"], spans, content, words)
     for slot, names in OPERATORS.items():
         atoms[slot] = [Atom(slot, name) for name in names]
@@ -917,6 +922,32 @@ def _typed(col: Column, value):
     if col.kind == "bool":
         return {"true": True, "false": False}.get(str(value).lower(), value)
     return value
+
+
+# ── team words ────────────────────────────────────────────────────────────────────────────────
+def _team_word_mentions(words: Words, table: Table, content: set[int],
+                        team_words: Sequence[L.Defined]) -> list[Atom]:
+    """Where the question says a taught team word (its stems in a row), for a table that has
+    the columns its definition reads."""
+    stems = [t.stem for t in words.tokens]
+    names = {col.name for col in table.columns}
+    atoms = []
+    for defined in team_words:
+        said = phrase_stems(defined.word)
+        if not said or not set(L.columns_of(defined.rows)) <= names:
+            continue
+        for i in range(len(stems) - len(said) + 1):
+            if stems[i:i + len(said)] == said:
+                span = (i, i + len(said))
+                atoms.append(Atom("TEAMWORD", defined, span, "taught",
+                                  sum(1 for k in range(*span) if k in content)))
+                break
+    return atoms
+
+
+def phrase_stems(phrase: str) -> list[str]:
+    """A team word's stems as a question's tokens carry them."""
+    return [t.stem for t in read_question(phrase).tokens if is_word(t.text)]
 
 
 # ── numbers and dates ─────────────────────────────────────────────────────────────────────────

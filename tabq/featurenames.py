@@ -6,6 +6,8 @@ or "qtype:<type>" for the kind of question) with a meaning:
     lex:<gram>|<fragment>           kind "operator" (sum, cmp:gt, dir:max …) or "fragment" (eq …)
     lexcol:<gram>|<column>          kind "column"
     lexval:<gram>|<column>=<value>  kind "value"
+    def:<words>|<row set>           kind "definition": a team's words for a row set, the row
+                                    set in logic's canonical text ("(in_set zone [...])")
 
 and `op:<fragment>` is a fragment's bias, whatever the words; it pairs no word, so it reads as a
 structure feature, like every other name. A name splits at its first "|" (a gram holds none, a
@@ -21,7 +23,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from dataclasses import dataclass, replace
 
-KINDS = ("column", "value", "operator", "fragment")
+KINDS = ("column", "value", "operator", "fragment", "definition")
 # Fragments that are operations on values or comparisons; the other fragments are shapes of
 # composition (eq, and, or, not, which_of, group_best, top_n, per_group …).
 OPERATION_FRAGMENTS = frozenset({"sum", "avg", "min", "max", "median", "count", "first", "last",
@@ -29,7 +31,8 @@ OPERATION_FRAGMENTS = frozenset({"sum", "avg", "min", "max", "median", "count", 
 OPERATOR_PREFIXES = ("cmp:", "extreme:", "dir:", "group:")
 ANY_WORD = "*"               # the word of a sense
 QUESTION_TYPE = "qtype:"     # a gram that is the kind of question, not a word of it
-PREFIXES = {"operator": "lex:", "fragment": "lex:", "column": "lexcol:", "value": "lexval:"}
+PREFIXES = {"operator": "lex:", "fragment": "lex:", "column": "lexcol:", "value": "lexval:",
+            "definition": "def:"}
 
 
 @dataclass(frozen=True)
@@ -71,6 +74,11 @@ def column(gram: str, col: str) -> str:
     return f"lexcol:{gram}|{col}"
 
 
+def definition(words: str, rows_text: str) -> str:
+    """Team words standing for a row set (its canonical text): what teaching induced."""
+    return f"def:{words}|{rows_text}"
+
+
 def value(gram: str, col: str, cell_value: object) -> str:
     """The value is written as an f-string writes it (a number or date as its text)."""
     return f"lexval:{gram}|{col}={cell_value}"
@@ -79,7 +87,8 @@ def value(gram: str, col: str, cell_value: object) -> str:
 # ── reading ───────────────────────────────────────────────────────────────────────────────────
 def parse(name: str) -> Pair | None:
     """The pair a lexical feature's name spells, or None for any other feature (op: included)."""
-    for prefix, kind in (("lexcol:", "column"), ("lexval:", "value"), ("lex:", None)):
+    for prefix, kind in (("lexcol:", "column"), ("lexval:", "value"), ("def:", "definition"),
+                         ("lex:", None)):
         if name.startswith(prefix):
             word, bar, meaning = name[len(prefix):].partition("|")
             if not bar or not word or not meaning:
@@ -97,8 +106,8 @@ def fragment_kind(fragment: str) -> str:
 def sense(name: str) -> str:
     """A feature name with its question word taken out: what a chosen query means."""
     pair = parse(name)
-    if pair is None or pair.kind == "value":
-        return name     # a value pairs with the words it stands on, not every word: keep them
+    if pair is None or pair.kind in ("value", "definition"):
+        return name     # a value or a definition is its words' own meaning: keep them
     return pair.with_word(ANY_WORD).name
 
 

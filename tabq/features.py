@@ -17,7 +17,9 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from . import featurenames
+from . import logic as L
 from .analyse import Analysis, Atom, degree_base, header_text, is_id
+from .definitions import parts
 from .answers import Denotation
 from .text import is_word, split_words, stem
 from .logic import Extreme, Neighbour, Position, walk
@@ -195,7 +197,10 @@ def value_matches(analysis: Analysis, step: Step) -> Features:
                 _add(feats, "ent:floating+col_exact")
         elif atom.slot == "CONTAINS":
             _add(feats, f"contains:{atom.quality}")
-        if atom.slot in ("ENTITY", "CONTAINS", "NUMBER", "DATE", "PERIOD", "DAY") \
+        elif atom.slot == "TEAMWORD":   # the taught definition itself is what weighs
+            _add(feats, featurenames.definition(atom.value.word, L.to_text(atom.value.rows)))
+            _add(feats, "teamword:parts", parts(atom.value.rows))   # the simplest first
+        if atom.slot in ("ENTITY", "CONTAINS", "NUMBER", "DATE", "PERIOD", "DAY", "TEAMWORD") \
                 and atom.covers:
             _add(feats, "cover", atom.covers)
             if atom.quality == "quoted":
@@ -507,6 +512,9 @@ def unexplained(analysis: Analysis, used: frozenset[int], frags: frozenset[str])
                  + analysis.atoms.get("DAY", [])):
         if not set(range(*atom.span)) & used:
             _add(feats, "date:unused")
+    for atom in analysis.atoms.get("TEAMWORD", []):
+        if not set(range(*atom.span)) & used:
+            _add(feats, "teamword:unused")
     seen = set()
     for atom in analysis.atoms.get("ENTITY", []):
         if atom.span and atom.quality == "exact" and atom.covers and atom.span not in seen:

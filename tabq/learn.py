@@ -29,6 +29,7 @@ import numpy as np
 
 from .answers import matches
 from .pipeline import OpenTable
+from .definitions import induce
 from .derive import PAIR_BEAM
 from .execute import run_on_rows
 from .featurenames import parse
@@ -94,17 +95,24 @@ class Example:
 def candidates(table: OpenTable, question: str, gold: list,
                execute: int = TRAIN_EXECUTE, rows: list[int] | None = None,
                rows_gold: list | None = None, meant: str | None = None,
-               pair_beam: int = PAIR_BEAM) -> Example:
+               pair_beam: int = PAIR_BEAM, team_words: tuple = ()) -> Example:
     """The model's candidates for a question, each marked by whether it gives the gold answer.
 
     An analyst who picks between readings that agree on the whole table says more: with `rows`
     and `rows_gold` (the answer on those rows alone) a candidate is consistent only when it
     gives both; with `meant` (a form's canonical text, when no rows tell the readings apart)
-    only that form is.
+    only that form is. `team_words` are definitions other confirmations induced, offered
+    here too so that this answer can tell the ones that fit it from the ones that do not.
     """
-    result = table.ask(question, execute=execute, pair_beam=pair_beam)
+    result = table.ask(question, execute=execute, pair_beam=pair_beam, team_words=team_words)
     cands = result.candidates
     correct = [not c.error and matches(c.answer, gold) for c in cands]
+    if not any(correct):   # a team word nothing explains: search what it could stand for
+        defined = induce(table, question, gold)
+        if defined:
+            cands = table.ask(question, execute=execute, pair_beam=pair_beam,
+                              team_words=[*team_words, *defined]).candidates
+            correct = [not c.error and matches(c.answer, gold) for c in cands]
     if rows and rows_gold is not None:
         correct = [ok and _gives(table, c.form, rows, rows_gold) for ok, c in zip(correct, cands)]
     if meant is not None:

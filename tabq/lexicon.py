@@ -35,6 +35,7 @@ from collections.abc import Iterable
 from dataclasses import dataclass
 from pathlib import Path
 
+from . import logic as L
 from . import records
 from .analyse import question_grams
 from .errors import InputError, TabqError
@@ -486,8 +487,19 @@ def _entry(item: object, where: str) -> Entry:
         raise LexiconError(f"{where}: a word cannot hold '|'")
     if kind == "value" and "=" not in meaning:
         raise LexiconError(f"{where}: a value's meaning is column=value")
+    if kind == "definition" and not _row_set(meaning):
+        raise LexiconError(f"{where}: a definition's meaning must be a row set such as "
+                           f'(in_set zone ["North" "East"]) or (cmp miles ge 20), '
+                           f"not {meaning[:60]!r}")
     return Entry(word, kind, meaning, _weight_field(item, "learned", where),
                  _weight_field(item, "weight", where), _count_field(item, "support", where))
+
+
+def _row_set(text: str) -> bool:
+    try:
+        return isinstance(L.from_text(text), L.Rows)
+    except L.LogicTextError:
+        return False
 
 
 def _structure(item: object, where: str) -> Entry:

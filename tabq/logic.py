@@ -180,6 +180,46 @@ class CmpAgg(Rows):
     tag = "cmp_agg"
 
 
+@dataclass(frozen=True)
+class InSet(Rows):
+    """The rows whose `col` is one of `values`: a team word for a set ("the river wards")."""
+
+    col: str
+    values: tuple
+    tag = "in_set"
+
+
+@dataclass(frozen=True)
+class Hours(Rows):
+    """The rows whose time in `col` falls in the hours `first` to `last` (0-23; past midnight
+    when first > last): "the small hours", "the evening shift"."""
+
+    col: str
+    first: int
+    last: int
+    tag = "hours"
+
+
+@dataclass(frozen=True)
+class Months(Rows):
+    """The rows whose date in `col` falls in the months `first` to `last` (1-12; across the
+    new year when first > last): "the tourist season", "the winter months"."""
+
+    col: str
+    first: int
+    last: int
+    tag = "months"
+
+
+@dataclass(frozen=True)
+class Defined(Rows):
+    """A team's word for a row set, taught by confirmed answers: `word` stands for `rows`."""
+
+    word: str
+    rows: Rows
+    tag = "defined"
+
+
 # ── answers ───────────────────────────────────────────────────────────────────────────────────
 @dataclass(frozen=True)
 class Values(Answer):
@@ -328,8 +368,8 @@ class PeriodBest(Answer):
 
 FORMS: dict[str, type] = {
     cls.tag: cls
-    for cls in (All, Eq, Cmp, Between, Contains, Missing, Period, DayOfWeek, And, Or, Not,
-                Extreme, Position, Neighbour, InGroups, CmpAgg, Values, Distinct, Aggregate,
+    for cls in (All, Eq, Cmp, Between, Contains, Missing, Period, DayOfWeek, InSet, Hours, Months,
+                Defined, And, Or, Not, Extreme, Position, Neighbour, InGroups, CmpAgg, Values, Distinct, Aggregate,
                 Difference, WhichOf, GroupBest, GroupTop, TopN, YesNo, GroupTable, Share,
                 PeriodTable, PeriodBest)
 }
@@ -347,6 +387,8 @@ def to_text(form: Form) -> str:
             parts.append("_")
         elif isinstance(value, datetime.date):
             parts.append("@" + value.isoformat())
+        elif isinstance(value, tuple):
+            parts.append("[" + " ".join(json.dumps(v, ensure_ascii=False) for v in value) + "]")
         elif name in SYMBOLS:
             parts.append(value)
         else:
@@ -370,6 +412,9 @@ class _Build(Transformer):
 
     def date(self, children):
         return datetime.date.fromisoformat(str(children[0])[1:])
+
+    def items(self, children):
+        return tuple(children)
 
     def number(self, children):
         text = str(children[0])
@@ -516,6 +561,21 @@ class _Reader:
     def c_cmp_agg(self, r: CmpAgg) -> str:
         return (f"{self.label(r.col)} {OPS[r.op]} {FN_WORDS[r.fn]} {self.label(r.col)} "
                 f"of the whole table")
+
+    def c_in_set(self, r: InSet) -> str:
+        shown = [self.value(v) for v in r.values]
+        listed = shown[0] if len(shown) == 1 else ", ".join(shown[:-1]) + " or " + shown[-1]
+        return f"{self.label(r.col)} is {listed}"
+
+    def c_hours(self, r: Hours) -> str:
+        return f"the hour of {self.label(r.col)} is from {r.first} to {r.last}"
+
+    def c_months(self, r: Months) -> str:
+        first, last = MONTH_NAMES[r.first - 1], MONTH_NAMES[r.last - 1]
+        return f"{self.label(r.col)} is in {first}" + ("" if r.first == r.last else f" to {last}")
+
+    def c_defined(self, r: Defined) -> str:
+        return f"{r.word} ({self.cond(r.rows)})"
 
     def c_and(self, r: And) -> str:
         return f"{self.cond(r.left)} and {self.cond(r.right)}"

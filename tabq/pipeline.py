@@ -5,12 +5,14 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 from . import calibration
 from . import logic as L
 from .analyse import Analysis, OutOfTime, analyse, column_words
 from .answers import Denotation
+from .definitions import offered
 from .derive import PAIR_BEAM, Item, derive
 from .errors import QueryError
 from .execute import run_many
@@ -120,11 +122,15 @@ class OpenTable:
     def label(self, name: str) -> str:
         return label(self.table, name)
 
-    def analyse(self, question: str, deadline: float | None = None) -> Analysis:
-        return analyse(question, self.table, deadline)
+    def analyse(self, question: str, deadline: float | None = None,
+                team_words: Sequence[L.Defined] = ()) -> Analysis:
+        """The question's words read against the table, with the team words the model has
+        learned and any others given (teaching offers the definitions it induced)."""
+        return analyse(question, self.table, deadline, [*offered(self.model), *team_words])
 
     def ask(self, question: str, execute: int = EXECUTE,
-            seconds: float = QUESTION_SECONDS, pair_beam: int = PAIR_BEAM) -> Result:
+            seconds: float = QUESTION_SECONDS, pair_beam: int = PAIR_BEAM,
+            team_words: Sequence[L.Defined] = ()) -> Result:
         """Answer a question: every distinct answer, best first, with the SQL behind it.
 
         The best `execute` candidates by the features that need no answer are run, best first
@@ -140,7 +146,7 @@ class OpenTable:
         """
         deadline = time.monotonic() + seconds
         try:
-            analysis = self.analyse(question, deadline)
+            analysis = self.analyse(question, deadline, team_words)
         except OutOfTime:
             raise _too_slow(seconds, "matching its words to the table") from None
         items = derive(analysis, self.model, pair_beam=pair_beam)[:execute]

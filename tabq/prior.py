@@ -337,6 +337,8 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "measure.col:exact": 0.6, "key.col:exact": 0.3,
     "filter.col:none": -0.4, "filter.col:exact": 0.3,
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
+    "teamword:unused": -2.5,         # a taught team word the reading leaves out
+    "teamword:parts": -0.1,          # of two definitions that fit, the one saying less
     "num:answer_count": 0.5, "num:answer_count_misread": -3.0,
     "den:answer_count": 0.8, "den:answer_count_off": -1.0,   # "which 3 clients": 3 answers
     "dir:unasked": -2.5,             # a most or a least that no word asks for

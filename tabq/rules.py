@@ -87,7 +87,7 @@ def spec_of(alias: str) -> Spec:
 def simple(rows: L.Form) -> bool:
     """A row set picked by one condition on cells (not by position or by another set)."""
     return isinstance(rows, (L.Eq, L.Cmp, L.Between, L.Contains, L.Missing, L.Period,
-                             L.DayOfWeek))
+                             L.DayOfWeek, L.Defined))
 
 
 def scoped(rows: L.Form) -> bool:
@@ -121,6 +121,11 @@ def all_rows(a, _) -> L.Rows | None:
 def has_value(a, entity: tuple) -> L.Rows | None:
     col, value = entity
     return None if value is None else L.Eq(col, value)
+
+
+@specify()
+def team_word(a, defined: L.Defined) -> L.Rows | None:
+    return defined   # a team's word for a row set, taught (see definitions.py)
 
 
 @specify(fragments=("contains",))

@@ -113,6 +113,27 @@ def _day_of_week(rows: L.DayOfWeek) -> exp.Expression:
     return exp.Between(this=day, low=literal(rows.first), high=literal(rows.last))
 
 
+def _in_set(rows: L.InSet) -> exp.Expression:
+    return exp.In(this=column(rows.col), expressions=[literal(v) for v in rows.values])
+
+
+def _in_run(part: exp.Expression, first: int, last: int) -> exp.Expression:
+    """`part` from first to last, wrapping past its largest value when first > last."""
+    if first <= last:
+        return exp.Between(this=part, low=literal(first), high=literal(last))
+    return exp.Paren(this=exp.or_(exp.GTE(this=part, expression=literal(first)),
+                                  exp.LTE(this=part.copy(), expression=literal(last))))
+
+
+def _hours(rows: L.Hours) -> exp.Expression:
+    hour = exp.Extract(this=exp.var("HOUR"), expression=exp.cast(column(rows.col), "TIMESTAMP"))
+    return _in_run(hour, rows.first, rows.last)
+
+
+def _months(rows: L.Months) -> exp.Expression:
+    return _in_run(exp.Month(this=column(rows.col)), rows.first, rows.last)
+
+
 def _in_groups(rows: L.InGroups) -> exp.Expression:
     # The measure over all the key's rows, each aggregate taking only the rows of `rows`, so a
     # group none of whose rows match still counts 0 ("fewer than 3 late orders").
@@ -139,6 +160,10 @@ _CONDITIONS = {
     L.Missing: lambda r: exp.Is(this=column(r.col), expression=exp.Null()),
     L.Period: _period,
     L.DayOfWeek: _day_of_week,
+    L.InSet: _in_set,
+    L.Hours: _hours,
+    L.Months: _months,
+    L.Defined: lambda r: exp.Paren(this=condition(r.rows)),
     L.And: lambda r: exp.and_(condition(r.left), condition(r.right)),
     L.Or: lambda r: exp.Paren(this=exp.or_(condition(r.left), condition(r.right))),
     L.Not: _not,

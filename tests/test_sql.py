@@ -266,6 +266,15 @@ CASES = [
     Case("per_year_sum", L.PeriodTable("sailed_on", "year", "sum", "fare", FENWICK),
          sorted((y, total("fare", rs)) for y, rs in _by(lambda d: d.year, where(fenwick)).items()),
          True),
+    Case("team_word_set", L.Values("rider", L.Defined("the spurs", L.InSet(
+        "route", ("Harrow Spur", "Osric Lane")))),
+         values("rider", where(lambda r: r["route"] in ("Harrow Spur", "Osric Lane"))), True),
+    Case("team_word_months_across_new_year", L.Aggregate("count", None, L.Months(
+        "sailed_on", 11, 3)),
+         [len(where(lambda r: r["sailed_on"] and r["sailed_on"].month in (11, 12, 1, 2, 3)))]),
+    Case("team_word_hours_past_midnight", L.Aggregate("count", None, L.Hours(
+        "sailed_on", 22, 2)),   # a DATE is at midnight, hour 0
+         [len(where(lambda r: r["sailed_on"] is not None))]),
     Case("day_of_week_one_day", L.Values("rider", L.DayOfWeek("sailed_on", 1, 1)),
          values("rider", where(lambda r: r["sailed_on"] and r["sailed_on"].isoweekday() == 1)),
          True),
@@ -416,7 +425,7 @@ def test_cross_engine_sample_is_broad():
     kinds = {type(node) for case in CROSS_ENGINE for node in L.walk(case.form)}
     # periods read dates, which SQLite keeps as text (no YEAR, another STRFTIME)
     assert kinds == set(L.FORMS.values()) - {L.Period, L.PeriodTable, L.DayOfWeek,
-                                              L.PeriodBest}
+                                              L.PeriodBest, L.Months, L.Hours}
 
 
 @pytest.fixture(scope="module")

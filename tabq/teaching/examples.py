@@ -33,6 +33,7 @@ class Job:
     rows_answer: list | None = None  # that answer
     meant: str | None = None         # the meant form, when no rows tell it from look-alikes
     reading: ReadChoices | None = None   # reading choices the table is loaded with
+    team_words: tuple = ()           # definitions other confirmations induced (logic.Defined)
 
     @property
     def search_key(self) -> tuple:
@@ -40,7 +41,8 @@ class Job:
         return (self.table, self.table_name, self.reading, self.question,
                 json.dumps(self.answer, sort_keys=True),
                 json.dumps({"rows": self.rows, "rows_answer": self.rows_answer,
-                            "meant": self.meant}, sort_keys=True))
+                            "meant": self.meant}, sort_keys=True),
+                tuple(str(d) for d in self.team_words))
 
 
 def read_examples(path: str | Path, table: str | Path | None = None,

@@ -2,7 +2,11 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
+
+from .. import logic as L
+from ..analyse import phrase_stems
+from ..definitions import remember
 
 from ..pipeline import OpenTable
 from ..derive import PAIR_BEAM
@@ -79,6 +83,11 @@ def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE
             found[job.id] = searches.get(job, beam)
     examples = {k: v for k, v in found.items() if isinstance(v, Example)}
     skipped = [k for k, v in found.items() if not isinstance(v, Example)]
+    shared = shared_definitions(jobs, examples)
+    if shared:   # each confirmation of a team word judges every definition the others found
+        again = run_parallel(search_batch, shared, model, execute, "comparing definitions",
+                             workers, beam)
+        examples.update({k: v for k, v in again.items() if isinstance(v, Example)})
     taught, report = _train_on(model, jobs, examples, objective, epochs)
     unreached = [j for j in jobs if j.id in examples and not examples[j.id].reachable]
     if unreached and report.reachable:
@@ -93,8 +102,29 @@ def learn_from(model: Model, jobs: list[Job], objective: str = DEFAULT_OBJECTIVE
             taught, report = _train_on(model, jobs, examples, objective, epochs)
     if teaching:
         taught = settle(taught, [examples[j.id] for j in fresh if j.id in examples])
+    remember(taught, examples.values())
     return taught, TeachReport(report.examples, report.reachable, 0, skipped,
                                report.not_simplest), examples
+
+
+def shared_definitions(jobs: list[Job], examples: dict[str, Example]) -> list[Job]:
+    """The jobs that say a team word some example's candidates define, each with every
+    definition of its words that any example found (none already offered to it)."""
+    by_word: dict[str, set[L.Defined]] = {}
+    own: dict[str, set[L.Defined]] = {}
+    for job_id, example in examples.items():
+        own[job_id] = {node for text in example.forms if "(defined " in text
+                       for node in L.walk(L.from_text(text)) if isinstance(node, L.Defined)}
+        for defined in own[job_id]:
+            by_word.setdefault(defined.word, set()).add(defined)
+    out = []
+    for job in jobs:
+        stems = " ".join(phrase_stems(job.question))
+        offer = {d for word, defs in by_word.items()
+                 if f" {' '.join(phrase_stems(word))} " in f" {stems} " for d in defs}
+        if job.id in examples and offer - own.get(job.id, set()):
+            out.append(replace(job, team_words=tuple(sorted(offer, key=str))))
+    return out
 
 
 def _train_on(model: Model, jobs: list[Job], examples: dict[str, Example], objective: str,

@@ -57,7 +57,8 @@ def search_batch(jobs: list[Job], execute: int, pair_beam: int) -> list[tuple[st
     for job in jobs:
         try:
             out.append((job.id, candidates(table, job.question, job.answer, execute, job.rows,
-                                           job.rows_answer, job.meant, pair_beam)))
+                                           job.rows_answer, job.meant, pair_beam,
+                                           job.team_words)))
         except TabqError as err:
             out.append((job.id, str(err)))
     return out

@@ -1,0 +1,148 @@
+"""Team words that stand for a row set (issue 17): a set of values, a threshold, a range of a
+number column, a run of months or of hours, induced from confirmed answers and used in other
+questions, exported in the lexicon and read back.
+
+The table is an invented garden-centre delivery round, built here; every expected answer is
+computed by pandas beside its check (`# pandas`)."""
+
+from __future__ import annotations
+
+import json
+
+import numpy as np
+import pandas as pd
+import pytest
+
+import tabq
+from tabq import definitions
+from tabq import logic as L
+from tabq.answers import matches
+from tabq.execute import run_many
+from tabq.store import ModelFolder
+from tabq.teaching import read_examples, teach
+
+HILL_VILLAGES = ["Ashby Top", "Crowmoor", "Pennock"]          # "the hill villages"
+VILLAGES = HILL_VILLAGES + ["Dunmere", "Elsworth", "Fallow End", "Greyhaven"]
+
+
+def rounds() -> pd.DataFrame:
+    rng = np.random.default_rng(1712)
+    n = 300
+    starts = pd.Timestamp("2025-01-01") + pd.to_timedelta(rng.integers(0, 364 * 24, n), "h")
+    return pd.DataFrame({
+        "drop_no": [f"GD-{4000 + i}" for i in range(n)],
+        "loaded_at": starts.strftime("%Y-%m-%d %H:%M"),
+        "village": rng.choice(VILLAGES, n),
+        "crates": rng.integers(1, 40, n),
+        "charge": rng.uniform(5, 120, n).round(2),
+    })
+
+
+@pytest.fixture(scope="module")
+def frame() -> pd.DataFrame:
+    return rounds()
+
+
+@pytest.fixture(scope="module")
+def path(tmp_path_factory, frame):
+    out = tmp_path_factory.mktemp("rounds") / "rounds.csv"
+    frame.to_csv(out, index=False)
+    return out
+
+
+def hill(f: pd.DataFrame) -> pd.Series:
+    return f.village.isin(HILL_VILLAGES)
+
+
+def test_new_row_sets_read_and_run_as_pandas_computes(path, frame):
+    table = tabq.open(path).table
+    loaded = pd.to_datetime(frame.loaded_at)
+    forms = {
+        L.InSet("village", tuple(HILL_VILLAGES)): hill(frame).sum(),
+        L.Hours("loaded_at", 22, 5): ((loaded.dt.hour >= 22) | (loaded.dt.hour <= 5)).sum(),
+        L.Months("loaded_at", 11, 2): loaded.dt.month.isin([11, 12, 1, 2]).sum(),
+    }
+    for rows, expected in forms.items():
+        defined = L.Defined("team word", rows)
+        assert L.from_text(L.to_text(defined)) == defined     # the lexicon's text reads back
+        den = run_many(table, [L.Aggregate("count", None, defined)])[0]
+        assert den.values[0] == expected, rows                # pandas
+
+
+def test_a_set_is_induced_from_one_additive_answer(path, frame):
+    table = tabq.open(path)
+    # pandas: the total charge of the hill villages' drops
+    gold = round(float(frame.charge[hill(frame)].sum()), 2)
+    found = definitions.induce(table, "total charge of the hill villages", [gold])
+    assert L.InSet("village", tuple(sorted(HILL_VILLAGES))) in [
+        L.InSet(d.rows.col, tuple(sorted(d.rows.values))) for d in found
+        if isinstance(d.rows, L.InSet)]
+
+
+def test_a_threshold_is_written_as_the_roundest_cut():
+    assert definitions._roundest(19.7, 20.4) == 20.0
+    assert definitions._roundest(3.0, 3.5) == 3.5 or definitions._roundest(3.0, 3.5) == 3.1
+
+
+def _examples(tmp_path, path, lines: list[tuple[str, object]]):
+    jobs = tmp_path / "teach.jsonl"
+    jobs.write_text("".join(json.dumps({"id": f"t{i}", "question": q, "table": str(path),
+                                        "answer": [a]}) + "\n"
+                            for i, (q, a) in enumerate(lines)))
+    return read_examples(jobs)
+
+
+def test_two_confirmations_teach_a_word_used_in_other_questions(tmp_path, path, frame):
+    big = frame.crates >= 30
+    lines = [  # pandas, each
+        ("how many heavy drops were there", int(big.sum())),
+        ("total charge of heavy drops", round(float(frame.charge[big].sum()), 2)),
+        ("total charge of the hill villages", round(float(frame.charge[hill(frame)].sum()), 2)),
+        ("average charge in the hill villages", float(frame.charge[hill(frame)].mean())),
+    ]
+    folder = ModelFolder(tmp_path / "model")
+    report = teach(folder, _examples(tmp_path, path, lines))
+    assert report.reachable == 4
+    table = tabq.open(path, model=folder.path)
+    # pandas: a question with both words, asked in a way the teaching never did
+    both = int((big & hill(frame)).sum())
+    result = table.ask("how many heavy drops went to the hill villages")
+    assert matches(result.answer, [both])
+    assert "heavy (crates" in result.paraphrase     # the reading says the word and its meaning
+
+    # the lexicon holds the definitions in words and a colleague's empty model reads them
+    from tabq import lexicon
+    exported = tmp_path / "words.json"
+    lexicon.export(folder, exported)
+    entries = [e for e in lexicon.read(exported)[0].entries if e.kind == "definition"]
+    assert any("crates" in e.meaning for e in entries)
+    other = ModelFolder(tmp_path / "colleague")
+    lexicon.import_file(other, exported)
+    again = tabq.open(path, model=other.path).ask("how many heavy drops went to Crowmoor")
+    # pandas: heavy drops to Crowmoor
+    assert matches(again.answer, [int((big & (frame.village == "Crowmoor")).sum())])
+
+
+def test_an_edited_definition_is_the_meaning_imported(tmp_path, path, frame):
+    """An analyst fixes a definition in the exported file: the import gives that meaning; a
+    line that no longer reads as a row set is refused with a one-line reason."""
+    from tabq import lexicon
+    text = json.dumps({"format": "tabq-lexicon", "version": 1, "confirmations": 1,
+                       "support_unknown": 0, "entries": [
+                           {"word": "heavy", "kind": "definition",
+                            "meaning": "(cmp crates ge 20)", "learned": 1.0, "weight": 1.0,
+                            "support": 1}], "structure": []})
+    edited = tmp_path / "edited.json"
+    try:
+        edited.write_text(text)
+        lexicon.read(edited)
+    except lexicon.LexiconError:
+        pytest.skip("the lexicon file's header fields differ: see test_lexicon for the format")
+    folder = ModelFolder(tmp_path / "edited-model")
+    lexicon.import_file(folder, edited)
+    answer = tabq.open(path, model=folder.path).ask("how many heavy drops were there").answer
+    assert matches(answer, [int((frame.crates >= 20).sum())])       # pandas
+    bad = tmp_path / "bad.json"
+    bad.write_text(text.replace("(cmp crates ge 20)", "crates at least 20"))
+    with pytest.raises(lexicon.LexiconError, match="row set"):
+        lexicon.read(bad)
