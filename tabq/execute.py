@@ -238,7 +238,13 @@ def _fetch(table: Table, sql: str, seconds: float, keep: int = MAX_ROWS) -> list
     timer = threading.Timer(seconds, table.con.interrupt)
     timer.start()
     try:
-        return table.con.execute(sql).fetchmany(keep)
+        rows = table.con.execute(sql).fetchmany(keep)
+        # DuckDB 2 holds the rows past `keep` until told, refusing other work on the connection
+        # meanwhile (a frame fetched later); 1.x drops them by itself and has no abort()
+        finish = getattr(table.con, "abort", None)
+        if finish is not None:
+            finish()
+        return rows
     except (duckdb.InterruptException, KeyboardInterrupt):
         return Denotation((), error=f"the query ran past {seconds:g} s and was stopped")
     except duckdb.Error as err:
