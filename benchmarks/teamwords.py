@@ -28,6 +28,7 @@ from pathlib import Path
 
 from tabq.answers import matches
 from tabq.model import Model
+from tabq.pipeline import DEFINITIONS_DISAGREE
 from tabq.store import ModelFolder
 from tabq.teaching import EvalReport, Job, evaluate, export_lexicon, import_lexicon
 from tabq.teaching import read_examples, teach
@@ -67,6 +68,14 @@ def right_by(report: EvalReport, jobs: list[Job], labels: dict[str, list[str]]) 
     return {k: f"{r}/{n}" for k, (r, n) in sorted(counts.items())}
 
 
+def clarifying(report) -> str:
+    """Test questions whose answer asks the analyst to pick between taught definitions that fit
+    the confirmations alike but answer differently (pipeline.DEFINITIONS_DISAGREE)."""
+    asked = sum(DEFINITIONS_DISAGREE in (p.get("unsure_reason") or "")
+                for p in report.predictions.values())
+    return f"{asked}/{report.examples}"
+
+
 def measure(model: Model, test: list[Job], teach_jobs: list[Job], fields: dict) -> dict:
     start = time.perf_counter()
     on_test = evaluate(model, test)
@@ -81,7 +90,7 @@ def measure(model: Model, test: list[Job], teach_jobs: list[Job], fields: dict) 
         "by_word": right_by(on_test, test, {j.id: fields[j.id]["words"] for j in test}),
         "right": [j.id for j in test if on_test.predictions[j.id]["answer"]
                   and matches(on_test.predictions[j.id]["answer"], j.answer)],
-        "clarifying_questions_needed": NOT_YET,
+        "clarifying_questions_needed": clarifying(on_test),
         "answer_seconds": round(time.perf_counter() - start, 1),
     }
 

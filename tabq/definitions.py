@@ -82,17 +82,50 @@ def backed(examples) -> set[L.Defined]:
 
 def remember(model, examples) -> None:
     """Give every definition the confirmations back at least DEFINITION_WEIGHT, so that it is
-    offered to later questions (a reading that won without it would teach it nothing)."""
-    for defined in backed(examples):
+    offered to later questions (a reading that won without it would teach it nothing), and
+    drop the weight of those they refute: a rejected guess is no part of the lexicon."""
+    examples = list(examples)
+    kept = backed(examples)
+    tried = {node for example in examples for text in example.forms if "(defined " in text
+             for node in L.walk(L.from_text(text)) if isinstance(node, L.Defined)}
+    for defined in tried:
         name = featurenames.definition(defined.word, L.to_text(defined.rows))
-        if model.weight(name) < DEFINITION_WEIGHT:
-            model.update({name: DEFINITION_WEIGHT - model.weight(name)})
+        goal = max(model.weight(name), DEFINITION_WEIGHT) if defined in kept else 0.0
+        if model.weight(name) != goal:
+            model.update({name: goal - model.weight(name)})
 
 
 def parts(rows: L.Rows) -> int:
     """How much a definition says: its values, or its bounds. Fewer is simpler."""
     return len(rows.values) if isinstance(rows, L.InSet) else (
         2 if isinstance(rows, (L.Between, L.Hours, L.Months)) else 1)
+
+
+def rival(best, candidates) -> tuple[L.Defined, L.Defined, object] | None:
+    """Another taught definition of a word the best reading uses that answers the question
+    differently in a reading otherwise the same: (the one used, the rival, the rival's
+    reading). The data cannot tell them apart; the analyst can."""
+    shape = _shape(best.form)
+    if shape is None:
+        return None
+    for other in candidates:
+        if other.form != best.form and other.answer != best.answer and not other.error \
+                and _shape(other.form) == shape:
+            mine = [n for n in L.walk(best.form) if isinstance(n, L.Defined)]
+            theirs = [n for n in L.walk(other.form) if isinstance(n, L.Defined)]
+            for a, b in zip(mine, theirs):
+                if a != b:
+                    return a, b, other
+    return None
+
+
+def _shape(form: L.Form) -> str | None:
+    """A form's text with each definition's meaning left out; None when it uses none."""
+    text = L.to_text(form)
+    used = [n for n in L.walk(form) if isinstance(n, L.Defined)]
+    for node in used:
+        text = text.replace(L.to_text(node), f'(defined "{node.word}")')
+    return text if used else None
 
 
 # ── induction ─────────────────────────────────────────────────────────────────────────────────

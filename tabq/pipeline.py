@@ -12,7 +12,7 @@ from . import calibration
 from . import logic as L
 from .analyse import Analysis, OutOfTime, analyse, column_words
 from .answers import Denotation
-from .definitions import offered
+from .definitions import offered, rival
 from .derive import PAIR_BEAM, Item, derive
 from .errors import QueryError
 from .execute import run_many
@@ -28,6 +28,7 @@ BATCH = 20              # candidates executed between two checks of whether the 
 SETTLED = 3             # distinct readings that must come out exactly as if all were executed
 MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
 MAX_WORDS = 3           # question words no reading uses, named in the unsure reason
+DEFINITIONS_DISAGREE = "what was taught fits two meanings of"   # opens that unsure reason
 
 
 @dataclass
@@ -211,6 +212,14 @@ def unsure_reason(result: Result) -> str | None:
         return "no reading fits"
     if not result.complete:
         return "the search stopped at its time limit"
+    clash = rival(best, result.candidates)
+    if clash:
+        used, other, reading = clash
+        label_of = result.table and (lambda c: label(result.table, c)) or str
+        return (f"{DEFINITIONS_DISAGREE} '{used.word}': "
+                f"{L.paraphrase(used.rows, label_of).removeprefix('rows where ')} or "
+                f"{L.paraphrase(other.rows, label_of).removeprefix('rows where ')} "
+                f"(which gives {', '.join(map(str, reading.answer[:3]))}); confirm the one meant")
     if sureness(result) >= calibration.SURE_SCORE:
         return None
     parts = []          # (how much it lowered the sureness, what it says)

@@ -146,3 +146,17 @@ def test_an_edited_definition_is_the_meaning_imported(tmp_path, path, frame):
     bad.write_text(text.replace("(cmp crates ge 20)", "crates at least 20"))
     with pytest.raises(lexicon.LexiconError, match="row set"):
         lexicon.read(bad)
+
+
+def test_definitions_that_fit_alike_but_answer_differently_are_asked_about(tmp_path, path,
+                                                                            frame):
+    """One count fits many definitions (a threshold of nearly any number column): on another
+    question where they answer differently the answer is flagged, naming two of them."""
+    from tabq.pipeline import DEFINITIONS_DISAGREE
+    big = frame.crates >= 30
+    folder = ModelFolder(tmp_path / "once")
+    teach(folder, _examples(tmp_path, path, [("how many heavy drops were there",
+                                              int(big.sum()))]))          # pandas
+    result = tabq.open(path, model=folder.path).ask("how many heavy drops went to Crowmoor")
+    assert result.unsure and DEFINITIONS_DISAGREE in result.unsure_reason
+    assert "'heavy'" in result.unsure_reason
