@@ -121,11 +121,14 @@ def rival(best, candidates) -> tuple[L.Defined, L.Defined, object] | None:
 
 def _shape(form: L.Form) -> str | None:
     """A form's text with each definition's meaning left out; None when it uses none."""
+    used = [n for n in L.walk(form) if isinstance(n, L.Defined)] if isinstance(
+        form, L.Form) else []
+    if not used:
+        return None
     text = L.to_text(form)
-    used = [n for n in L.walk(form) if isinstance(n, L.Defined)]
     for node in used:
         text = text.replace(L.to_text(node), f'(defined "{node.word}")')
-    return text if used else None
+    return text
 
 
 # ── induction ─────────────────────────────────────────────────────────────────────────────────
