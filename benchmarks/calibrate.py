@@ -8,13 +8,14 @@ Asks every question of the sets with the untaught model (`Model.prior()`, as the
 do), keeps each distinct answer's reading scores and whether it is right, then fits:
 AGREEMENT (how an answer's readings make its score: the grid value with the most top answers
 right), TEMPERATURE only with --refit-temperature (least log loss of "the top answer is right"
-against the probability shown; kept otherwise, see `fit`) and the unsure flag: GAP_WEIGHT and
-COLUMN_WORD_WEIGHT by logistic regression of "the top answer is right" on the runner-up's
-distance and the column-naming words the top reading ignores (one intercept per family, so the
-families' different accuracies do not bend the weights), then SURE_SCORE, the lowest sureness
-from which the top answers of each of the FLAG_SETS families are right at least PRECISION of
-the time. Every family of sets (a folder) weighs the same, so the
-619 WikiTableQuestions do not drown the others nor 5 questions on one table count as 100. Each
+against the probability shown; kept otherwise, see `fit`) and the unsure flag: GAP_WEIGHT,
+COLUMN_WORD_WEIGHT, NOTHING_WEIGHT and VALUE_DOUBT_WEIGHT by logistic regression of "the top
+answer is right" on the runner-up's distance, the column-naming words the top reading ignores,
+whether its answer is 0 or nothing and its doubtful readings of a value (one intercept per
+family, so the families' different accuracies do not bend the weights), then SURE_SCORE, the
+lowest sureness from which the top answers on each table of the FLAG_SETS families are right at
+least PRECISION of the time. Every family of sets (a folder) weighs the same, so the 619
+WikiTableQuestions do not drown the others nor 5 questions on one table count as 100. Each
 kind of the FLAG_SETS is also measured with everything fitted without it, and each candidate
 signal's power to tell right top answers from wrong is printed (its AUC per family of sets).
 `--write` rewrites tabq/calibration.py; `--svg FILE` draws the reliability curve per set.
@@ -93,6 +94,8 @@ def _ask_group(args: tuple[str, str, list[dict]]) -> list[dict]:
         answers = [{"scores": [r.score for r in g],
                     "right": bool(not g[0].error and matches(g[0].answer, ex["answer"])),
                     "unused": list(g[0].unused), "unused_columns": len(g[0].unused_columns),
+                    "nothing": pipeline.gives_nothing(g[0]),
+                    "value_doubts": len(pipeline.value_doubts(g[0])),
                     **{f: g[0].features.get(f, 0.0) for f in SIGNAL_FEATURES}}
                    for g in groups.values()]
         out.append({"set": name, "id": ex["id"], "kind": ex.get("kind", name),
@@ -213,10 +216,13 @@ FLAG_SETS = ("zeroshot", "zeroshot3", "monthday")   # plain questions written fo
 L2 = 1e-3           # ridge, so a set whose answers are all right (or all wrong) stays finite
 
 
-def sureness_inputs(t: Top) -> tuple[float, float]:
-    """What `pipeline.sureness` weighs: the runner-up's distance, capped, and the words naming
-    a column that the top reading leaves unused."""
-    return min(t.gap, calibration.GAP_CAP), float(t.answer["unused_columns"] if t.answer else 0)
+def sureness_inputs(t: Top) -> tuple[float, float, float, float]:
+    """What `pipeline.sureness` weighs: the runner-up's distance, capped, the words naming
+    a column that the top reading leaves unused, whether the top answer is 0 or nothing, and
+    its doubtful readings of a value (`pipeline.value_doubts`)."""
+    answer = t.answer or {}
+    return (min(t.gap, calibration.GAP_CAP), float(answer.get("unused_columns", 0)),
+            float(answer.get("nothing", False)), float(answer.get("value_doubts", 0)))
 
 
 def flag_sets(sets: dict[str, list]) -> dict[str, list]:
@@ -232,24 +238,28 @@ class Fit:
     temperature: float
     gap_weight: float = 0.0
     column_word_weight: float = 0.0
+    nothing_weight: float = 0.0
+    value_doubt_weight: float = 0.0
     sure_score: float = -math.inf
 
     def tops(self, questions: list[Question]) -> list[Top]:
         return [top(q, self.agreement, self.temperature) for q in questions]
 
     def sureness(self, t: Top) -> float:
-        gap, words = sureness_inputs(t)
-        return self.gap_weight * gap - self.column_word_weight * words
+        gap, words, nothing, doubts = sureness_inputs(t)
+        return self.gap_weight * gap - self.column_word_weight * words \
+            - self.nothing_weight * nothing - self.value_doubt_weight * doubts
 
     def flagged(self, t: Top) -> bool:
         """As `pipeline.unsure_reason` decides."""
         return t.answer is None or not t.complete or self.sureness(t) < self.sure_score
 
 
-def fit_weights(tops: dict[str, list[Top]]) -> tuple[float, float]:
+def fit_weights(tops: dict[str, list[Top]]) -> tuple[float, float, float, float]:
     """Logistic regression of "the top answer is right" on `sureness_inputs`, with one intercept
     per family (what its accuracy is, which a new question does not say), each family weighing
-    the same; Newton's method. Returns the gap's weight and the column words' weight (as a cost)."""
+    the same; Newton's method. Returns the gap's weight, then the column words', the empty
+    answer's and the value doubts' weights (as costs)."""
     names = sorted(tops)
     rows = [(names.index(n), t) for n in names for t in tops[n] if t.answer is not None]
     x = np.array([[*sureness_inputs(t), *(float(k == i) for k in range(len(names)))]
@@ -266,7 +276,8 @@ def fit_weights(tops: dict[str, list[Top]]) -> tuple[float, float]:
         theta -= step
         if np.abs(step).max() < 1e-10:
             break
-    return round(float(theta[0]), 3), round(float(-theta[1]), 3)
+    return (round(float(theta[0]), 3), round(float(-theta[1]), 3), round(float(-theta[2]), 3),
+            round(float(-theta[3]), 3))
 
 
 @dataclass
@@ -292,13 +303,13 @@ def worst(tops: dict[str, list[Top]], f: Fit) -> float:
 
 
 def fit_sure_score(tops: dict[str, list[Top]], f: Fit) -> float:
-    """The lowest threshold from which every family's sure answers are right PRECISION of the
-    time; when none is, the one with the best worst family. Candidates: each question's
-    sureness."""
+    """The lowest threshold from which the sure answers of every set given (each table of the
+    flag's families: an analyst asks about one table) are right PRECISION of the time; when
+    none is, the one with the best worst set. Candidates: each question's sureness."""
     levels = sorted({round(f.sureness(t), 3) for ts in tops.values() for t in ts
                      if t.answer is not None})
-    tried = [Fit(f.agreement, f.temperature, f.gap_weight, f.column_word_weight, level)
-             for level in levels]
+    tried = [Fit(f.agreement, f.temperature, f.gap_weight, f.column_word_weight,
+                 f.nothing_weight, f.value_doubt_weight, level) for level in levels]
     fits = [g for g in tried if worst(tops, g) >= PRECISION]
     return (fits[0] if fits else max(tried, key=lambda g: worst(tops, g))).sure_score
 
@@ -313,7 +324,8 @@ def fit(questions: list[Question], refit_temperature: bool = False) -> Fit:
                    else calibration.TEMPERATURE)
     tops = {name: [top(q, agreement, temperature) for q in qs] for name, qs in sets.items()}
     f = Fit(agreement, temperature, *fit_weights(tops))
-    f.sure_score = fit_sure_score(flag_sets(tops), f)
+    tables = {name: f.tops(qs) for name, qs in by_set(questions).items()}
+    f.sure_score = fit_sure_score(flag_sets(tables), f)   # each table keeps the promise
     return f
 
 
@@ -335,6 +347,8 @@ CANDIDATES = {
     "probability shown": lambda t: t.probability,
     "readings giving it": lambda t: t.readings,
     "- words naming a column it ignores": lambda t: -t.answer["unused_columns"],
+    "- answer 0 or nothing": lambda t: -float(t.answer.get("nothing", False)),
+    "- doubtful value readings": lambda t: -float(t.answer.get("value_doubts", 0)),
     "- words it ignores": lambda t: -len(t.answer["unused"]),
     "- words no reading uses": lambda t: -len(t.never_used),
     "- strong cue unexplained": lambda t: -t.answer["cue:unexplained"],
@@ -447,10 +461,13 @@ against its probability on zeroshot, wtq and vocabulary/test, each file weighing
 also bounds which candidates a search may skip, which teaching depends on, and the value fitted
 on these families (0.8631) made tests/test_wtq_fixture's taught model fall short. The unsure
 flag thresholds `pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in score (capped at
-GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores.
-The two weights: logistic regression of "the top answer is right" on those two inputs, one
-intercept per family. SURE_SCORE: the lowest sureness from which the top answers of each of the
-zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
+GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores
+(not one whose values name the rows: `pipeline.names_rows`) − NOTHING_WEIGHT when the top answer
+is 0 or nothing − VALUE_DOUBT_WEIGHT × its doubtful readings of a value (`pipeline.VALUE_DOUBTS`:
+a number after a comparison word read as a cell value, a value matched by part of its name).
+The four weights: logistic regression of "the top answer is right" on those inputs, one
+intercept per family. SURE_SCORE: the lowest sureness from which the top answers on each table
+of the zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
 WikiTableQuestions and the untaught team words no threshold gets there short of flagging nearly
 all). GAP_CAP is set, not fitted: a runner-up 3 points behind holds under 5% of the top
 answer's probability.
@@ -463,6 +480,8 @@ TEMPERATURE = {f.temperature}  # answer scores are divided by this before the so
 GAP_CAP = {calibration.GAP_CAP}  # the runner-up's distance counts up to this much
 GAP_WEIGHT = {f.gap_weight}  # sureness per point of distance between the top answer and the runner-up
 COLUMN_WORD_WEIGHT = {f.column_word_weight}  # sureness lost per word naming a column the top reading ignores
+NOTHING_WEIGHT = {f.nothing_weight}  # sureness lost when the top answer is 0 or nothing
+VALUE_DOUBT_WEIGHT = {f.value_doubt_weight}  # sureness lost per doubtful reading of a value
 SURE_SCORE = {f.sure_score}  # the sureness from which the top answer is not flagged unsure
 '''
 
@@ -478,6 +497,7 @@ def report(name: str, tops: list[Top], fitted: Fit) -> str:
 def constants(f: Fit) -> str:
     return (f"AGREEMENT = {f.agreement}, TEMPERATURE = {f.temperature}, GAP_WEIGHT = "
             f"{f.gap_weight}, COLUMN_WORD_WEIGHT = {f.column_word_weight}, "
+            f"NOTHING_WEIGHT = {f.nothing_weight}, VALUE_DOUBT_WEIGHT = {f.value_doubt_weight}, "
             f"SURE_SCORE = {f.sure_score}")
 
 
@@ -490,7 +510,8 @@ def print_reliability(tops: list[Top]) -> None:
 def measure(sets: dict[str, list[Question]], picture: Path | None) -> None:
     """The constants in use, measured on sets they were not fitted on."""
     f = Fit(calibration.AGREEMENT, calibration.TEMPERATURE, calibration.GAP_WEIGHT,
-            calibration.COLUMN_WORD_WEIGHT, calibration.SURE_SCORE)
+            calibration.COLUMN_WORD_WEIGHT, calibration.NOTHING_WEIGHT,
+            calibration.VALUE_DOUBT_WEIGHT, calibration.SURE_SCORE)
     print(f"measured with {constants(f)}")
     for name, qs in sets.items():
         print(report(name, f.tops(qs), f))

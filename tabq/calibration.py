@@ -11,20 +11,25 @@ against its probability on zeroshot, wtq and vocabulary/test, each file weighing
 also bounds which candidates a search may skip, which teaching depends on, and the value fitted
 on these families (0.8631) made tests/test_wtq_fixture's taught model fall short. The unsure
 flag thresholds `pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in score (capped at
-GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores.
-The two weights: logistic regression of "the top answer is right" on those two inputs, one
-intercept per family. SURE_SCORE: the lowest sureness from which the top answers of each of the
-zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
+GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores
+(not one whose values name the rows: `pipeline.names_rows`) − NOTHING_WEIGHT when the top answer
+is 0 or nothing − VALUE_DOUBT_WEIGHT × its doubtful readings of a value (`pipeline.VALUE_DOUBTS`:
+a number after a comparison word read as a cell value, a value matched by part of its name).
+The four weights: logistic regression of "the top answer is right" on those inputs, one
+intercept per family. SURE_SCORE: the lowest sureness from which the top answers on each table
+of the zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
 WikiTableQuestions and the untaught team words no threshold gets there short of flagging nearly
 all). GAP_CAP is set, not fitted: a runner-up 3 points behind holds under 5% of the top
 answer's probability.
-Asked at commit 85daf19+ ("+": with uncommitted changes).
+Asked at commit e3802aa+ ("+": with uncommitted changes).
 Refit: python benchmarks/calibrate.py --write.
 """
 
 AGREEMENT = 0.0  # weight of the log-sum-exp bonus for other readings giving the same answer
 TEMPERATURE = 1.0443  # answer scores are divided by this before the softmax
 GAP_CAP = 3.0  # the runner-up's distance counts up to this much
-GAP_WEIGHT = 1.212  # sureness per point of distance between the top answer and the runner-up
-COLUMN_WORD_WEIGHT = 0.729  # sureness lost per word naming a column the top reading ignores
-SURE_SCORE = 0.241  # the sureness from which the top answer is not flagged unsure
+GAP_WEIGHT = 1.115  # sureness per point of distance between the top answer and the runner-up
+COLUMN_WORD_WEIGHT = 1.603  # sureness lost per word naming a column the top reading ignores
+NOTHING_WEIGHT = 1.273  # sureness lost when the top answer is 0 or nothing
+VALUE_DOUBT_WEIGHT = 0.744  # sureness lost per doubtful reading of a value
+SURE_SCORE = 0.112  # the sureness from which the top answer is not flagged unsure

@@ -329,6 +329,22 @@ def compound_numbers(analysis: Analysis, step: Step) -> Features:
         a.slot == "NUMBER" and a.span in compounds for a in step.atoms) else {}
 
 
+THRESHOLD_WORDS = frozenset({"than", "over", "above", "below", "under", "least", "most",
+                             "exceeding", "beyond"})   # a number after one is a threshold
+
+
+@node_feature
+def threshold_as_value(analysis: Analysis, step: Step) -> Features:
+    """A number said right after a comparison word ("hotter than 90", "over 26") read as a cell
+    value: the question asks for a threshold, so the reading is doubtful (`pipeline.sureness`)."""
+    tokens = analysis.words.tokens
+    for atom in step.atoms:     # its span may hold the words before the number ("hotter than 90")
+        if atom.slot == "ENTITY" and atom.quality == "number" and atom.span and any(
+                t.text in THRESHOLD_WORDS for t in tokens[max(0, atom.span[0] - 2):atom.span[1]]):
+            return {"num:threshold_as_value": 1.0}
+    return {}
+
+
 @node_feature
 def comparisons(analysis: Analysis, step: Step) -> Features:
     if not spec_of(step.rule).compares_numbers:

@@ -156,7 +156,7 @@ def test_eval_reports_accuracy_among_sure_answers_and_predictions_say_how_sure(t
 # ── the unsure decision itself ──────────────────────────────────────────────────────────────
 def _result(scores: list[float], unused_columns=()) -> pipeline.Result:
     """A result of one reading per answer with these scores, ranked and weighed as `ask` does."""
-    readings = [pipeline.Reading(form=None, sql=f"q{i}", paraphrase="", answer=[i], score=s,
+    readings = [pipeline.Reading(form=None, sql=f"q{i}", paraphrase="", answer=[i + 1], score=s,
                                  features={}, key=(i,)) for i, s in enumerate(scores)]
     readings[0].unused_columns = tuple(unused_columns)
     ranked = pipeline._distinct_answers(readings)
@@ -216,3 +216,85 @@ def test_the_reading_that_ignores_a_named_column_is_the_one_pandas_disagrees_wit
         assert not matches(c.answer, [want])
         assert [w for w, _ in c.unused_columns] == ["bills"]
         assert c.unused_columns[0][1].startswith("bill_")
+
+
+# ── what else lowers the sureness ───────────────────────────────────────────────────────────
+HIVES = """hive,apiary,frames,honey_kg
+Bramble,north,10,12.5
+Clover,north,12,20.0
+Heather,south,12,8.0
+Linden,north,14,31.5
+Sorrel,south,16,14.0
+Teasel,north,8,5.5
+Yarrow,south,12,18.0
+"""
+
+
+@pytest.fixture()
+def hives(tmp_path):
+    path = tmp_path / "hives.csv"
+    path.write_text(HIVES, encoding="utf-8")
+    return path
+
+
+def test_a_word_naming_the_rows_is_no_ignored_column_word(hives):
+    """"hives" names the hive column, whose values name every row: counting the north hives
+    needs no hive value, so the word left unused says nothing against the answer. "frames"
+    names a column of amounts, and a reading that leaves it unused still counts it."""
+    import pandas as pd
+    frame = pd.read_csv(hives)
+    table = tabq.open(hives, model=tabq.Model.prior())
+    result = table.ask("How many hives are in the north apiary?")
+    assert matches(result.answer, [int((frame["apiary"] == "north").sum())])   # pandas
+    analysis = table.analyse("How many hives are in the north apiary?")
+    assert "hive" in pipeline.column_words(analysis).values()
+    assert pipeline.names_rows(table.table, "hive")
+    assert not pipeline.names_rows(table.table, "frames")
+    assert not result.best.unused_columns
+    counted = table.ask("How many north hives have 12 frames?")
+    want = int(((frame["apiary"] == "north") & (frame["frames"] == 12)).sum())   # pandas
+    ignoring = [c for c in counted.candidates if not matches(c.answer, [want])
+                and "frames" in c.unused]
+    assert ignoring and all(("frames", "frames") in c.unused_columns for c in ignoring)
+
+
+def test_an_answer_of_zero_or_nothing_lowers_the_sureness_and_says_so():
+    result = _result([2.0, 1.5])
+    sure = pipeline.sureness(result)
+    result.readings[0].answer = [0]
+    assert pipeline.sureness(result) == pytest.approx(sure - calibration.NOTHING_WEIGHT)
+    gap = (calibration.SURE_SCORE + calibration.NOTHING_WEIGHT / 2) / calibration.GAP_WEIGHT
+    zero = _result([1.0, 1.0 - gap])
+    assert not zero.unsure
+    zero.readings[0].answer = [0]
+    assert zero.unsure and "its answer is 0 or nothing" in zero.unsure_reason
+    for nothing in ([], [None], [0.0]):
+        zero.readings[0].answer = nothing
+        assert pipeline.gives_nothing(zero.readings[0])
+    for something in ([False], ["0"], [0, 1], [3]):
+        zero.readings[0].answer = something
+        assert not pipeline.gives_nothing(zero.readings[0])
+
+
+def test_a_threshold_read_as_a_cell_value_is_a_doubt(hives):
+    """"more than 12 frames": 12 is a value of frames, so one reading counts the hives with
+    exactly 12; it carries the doubt, the reading that compares does not and gives pandas'
+    answer, and a top answer with the doubt is less sure by VALUE_DOUBT_WEIGHT."""
+    import pandas as pd
+    frame = pd.read_csv(hives)
+    table = tabq.open(hives, model=tabq.Model.prior())
+    result = table.ask("How many hives have more than 12 frames?")
+    equal = [c for c in result.candidates if isinstance(c.form, L.Aggregate)
+             and isinstance(c.form.rows, L.Eq) and c.form.rows.col == "frames"]
+    above = [c for c in result.candidates if isinstance(c.form, L.Aggregate)
+             and isinstance(c.form.rows, L.Cmp) and c.form.rows.col == "frames"
+             and c.form.rows.op == "gt"]
+    assert equal and above
+    assert all(pipeline.value_doubts(c) == ["num:threshold_as_value"] for c in equal)
+    assert matches(equal[0].answer, [int((frame["frames"] == 12).sum())])   # pandas
+    assert matches(above[0].answer, [int((frame["frames"] > 12).sum())])    # pandas
+    assert not pipeline.value_doubts(above[0])
+    doubted = _result([2.0, 1.5])
+    sure = pipeline.sureness(doubted)
+    doubted.readings[0].features = {"num:threshold_as_value": 1.0}
+    assert pipeline.sureness(doubted) == pytest.approx(sure - calibration.VALUE_DOUBT_WEIGHT)
