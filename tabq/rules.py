@@ -366,10 +366,16 @@ def spread(a, fn1: str, fn2: str, col: str, rows: L.Rows) -> L.Answer | None:
 # "How many more late deliveries did Ashcombe have than Dunholt": two values of one column
 # compared within the rows of a condition on another ("late"), which both sides keep.
 def _contrast(common: L.Rows, left: L.Rows, right: L.Rows) -> tuple | None:
-    cols = [getattr(rows, "col", None) for rows in (common, left, right)]
+    cols = [_column_of(rows) for rows in (common, left, right)]
     if left == right or cols[1] is None or cols[1] != cols[2] or cols[0] == cols[1]:
         return None
     return tuple(sorted((_and(common, left), _and(common, right)), key=str))
+
+
+def _column_of(rows: L.Rows) -> str | None:
+    """The one column a condition reads; a team word's is its definition's ("the tourist
+    season" and "the small hours" both read the start time)."""
+    return _column_of(rows.rows) if isinstance(rows, L.Defined) else getattr(rows, "col", None)
 
 
 def _and(first: L.Rows, second: L.Rows) -> L.Rows:

@@ -160,3 +160,28 @@ def test_definitions_that_fit_alike_but_answer_differently_are_asked_about(tmp_p
     result = tabq.open(path, model=folder.path).ask("how many heavy drops went to Crowmoor")
     assert result.unsure and DEFINITIONS_DISAGREE in result.unsure_reason
     assert "'heavy'" in result.unsure_reason
+
+
+def test_how_many_more_compares_two_team_words_on_one_column_within_a_third(tmp_path, path,
+                                                                          frame):
+    """"How many more heavy drops in the summer than in the small hours": both sides read the
+    load time, so the difference keeps the common word on each side."""
+    loaded = pd.to_datetime(frame.loaded_at)
+    big, summer = frame.crates >= 30, loaded.dt.month.isin([6, 7, 8])
+    night = loaded.dt.hour <= 4
+    lines = [  # pandas, each
+        ("how many heavy drops were there", int(big.sum())),
+        ("total charge of heavy drops", round(float(frame.charge[big].sum()), 2)),
+        ("how many drops were in the summer", int(summer.sum())),
+        ("total charge in the summer", round(float(frame.charge[summer].sum()), 2)),
+        ("how many drops were in the small hours", int(night.sum())),
+        ("total charge in the small hours", round(float(frame.charge[night].sum()), 2)),
+    ]
+    folder = ModelFolder(tmp_path / "three")
+    teach(folder, _examples(tmp_path, path, lines))
+    # pandas: heavy summer drops less heavy small-hours drops (the question's premise holds)
+    expected = int((big & summer).sum() - (big & night).sum())
+    assert expected > 0
+    result = tabq.open(path, model=folder.path).ask(
+        "how many more heavy drops were in the summer than in the small hours")
+    assert matches(result.answer, [expected])
