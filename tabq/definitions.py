@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import replace
+from weakref import WeakKeyDictionary
 
 import numpy as np
 
@@ -28,6 +29,7 @@ from . import logic as L
 from .analyse import Analysis
 from .execute import run_many
 from .sql import render
+from .table import TABLE, ident
 
 MAX_SET_VALUES = 16      # a column with more values is not searched for sets (2^16 subsets)
 MAX_PHRASE_WORDS = 3     # words of a team word
@@ -40,11 +42,13 @@ STRONG = {"exact", "stem", "partial", "abbrev", "code", "flag", "number", "compo
           "date", "year", "month", "day", "ordinal"}
 
 
+_OFFERED: WeakKeyDictionary = WeakKeyDictionary()   # model → (its version, its definitions)
+
+
 def offered(model) -> list[L.Defined]:
     """The definitions a model has learned (a positive weight), as its features spell them."""
-    key = ("definitions", model.version)
-    cache = model.__dict__.setdefault("_cache", {})
-    if key not in cache:
+    version, found = _OFFERED.get(model, (None, []))
+    if version != model.version:
         found = []
         for name, weight in model.items():
             pair = featurenames.parse(name) if name.startswith("def:") else None
@@ -56,9 +60,15 @@ def offered(model) -> list[L.Defined]:
                 continue          # an edited lexicon line that no longer reads: ignored
             if isinstance(rows, L.Rows):
                 found.append(L.Defined(pair.word, rows))
-        cache.clear()
-        cache[key] = found
-    return cache[key]
+        _OFFERED[model] = (model.version, found)
+    return found
+
+
+def defined_in(form_text: str) -> set[L.Defined]:
+    """The definitions a candidate's form (as canonical text) uses."""
+    if "(defined " not in form_text:
+        return set()
+    return {node for node in L.walk(L.from_text(form_text)) if isinstance(node, L.Defined)}
 
 
 def backed(examples) -> set[L.Defined]:
@@ -68,13 +78,9 @@ def backed(examples) -> set[L.Defined]:
     for example in examples:
         seen, right = set(), set()
         for text, ok in zip(example.forms, example.correct):
-            if "(defined " not in text:
-                continue
-            for node in L.walk(L.from_text(text)):
-                if isinstance(node, L.Defined):
-                    seen.add(node)
-                    if ok:
-                        right.add(node)
+            in_form = defined_in(text)
+            seen |= in_form
+            right |= in_form if ok else set()
         for defined in seen:
             used[defined] = used.get(defined, True) and defined in right
     return {defined for defined, fits in used.items() if fits}
@@ -86,8 +92,8 @@ def remember(model, examples) -> None:
     drop the weight of those they refute: a rejected guess is no part of the lexicon."""
     examples = list(examples)
     kept = backed(examples)
-    tried = {node for example in examples for text in example.forms if "(defined " in text
-             for node in L.walk(L.from_text(text)) if isinstance(node, L.Defined)}
+    tried = {node for example in examples for text in example.forms
+             for node in defined_in(text)}
     for defined in tried:
         name = featurenames.definition(defined.word, L.to_text(defined.rows))
         goal = max(model.weight(name), DEFINITION_WEIGHT) if defined in kept else 0.0
@@ -318,8 +324,9 @@ def _ranges(values, totals, fn, gold, name) -> list[L.Rows]:
 
 
 def _distinct_numbers(table, name: str) -> list[float]:
-    rows = table.con.execute(f'SELECT DISTINCT "{name}" FROM t WHERE "{name}" IS NOT NULL '
-                             f'ORDER BY 1').fetchall()
+    col = ident(name)
+    rows = table.con.execute(f"SELECT DISTINCT {col} FROM {TABLE} WHERE {col} IS NOT NULL "
+                             f"ORDER BY 1").fetchall()
     return [float(r[0]) for r in rows]
 
 
@@ -330,10 +337,10 @@ def _per_value_grouped(table, form, place, name: str, values: list[float]) -> np
     measure = L.Aggregate("sum", form.col, filled) if form.col else \
         L.Aggregate("count", None, filled)
     count = L.Aggregate("count", None, filled)
-    hole = "'" + HOLE + "'"
-    outer = (f'SELECT v, ({render(measure).replace(hole, "vals.v")}), '
-             f'({render(count).replace(hole, "vals.v")}) FROM (SELECT DISTINCT "{name}" AS v '
-             f'FROM t WHERE "{name}" IS NOT NULL) AS vals ORDER BY v')
+    hole, col = "'" + HOLE + "'", ident(name)
+    outer = (f"SELECT v, ({render(measure).replace(hole, 'vals.v')}), "
+             f"({render(count).replace(hole, 'vals.v')}) FROM (SELECT DISTINCT {col} AS v "
+             f"FROM {TABLE} WHERE {col} IS NOT NULL) AS vals ORDER BY v")
     rows = table.con.execute(outer).fetchall()
     by_value = {float(v): (s or 0.0, c or 0.0) for v, s, c in rows}
     return np.array([by_value.get(v, (0.0, 0.0)) for v in values], dtype=float)

@@ -536,8 +536,17 @@ from hypothesis import strategies as st  # noqa: E402
 
 _text = st.text(min_size=1, max_size=30).filter(lambda t: "\x00" not in t)
 _weight = st.floats(-999, 999, allow_nan=False).map(lambda x: round(x, 6) + 0.0)
+def _meaning(kind: str, col: str, val: str) -> str:
+    """What an entry of this kind may mean: column=value for a value, a row set's text (any
+    value in it) for a definition, any text for the rest."""
+    from tabq import logic as L
+    if kind == "value":
+        return f"{col}={val}"
+    return L.to_text(L.InSet("area", (val,))) if kind == "definition" else col
+
+
 _entry = st.builds(lambda word, kind, col, val, learned, weight, support: lexicon.Entry(
-    word, kind, f"{col}={val}" if kind == "value" else col, learned, weight, support),
+    word, kind, _meaning(kind, col, val), learned, weight, support),
     _text.filter(lambda w: "|" not in w), st.sampled_from(lexicon.KINDS), _text, _text,
     _weight, _weight, st.integers(0, 10**6))
 _structure = st.builds(lambda name, learned, weight, support: lexicon.Entry(

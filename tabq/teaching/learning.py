@@ -6,7 +6,7 @@ from dataclasses import dataclass, field, replace
 
 from .. import logic as L
 from ..analyse import phrase_stems
-from ..definitions import remember
+from ..definitions import defined_in, remember
 
 from ..pipeline import OpenTable
 from ..derive import PAIR_BEAM
@@ -113,8 +113,7 @@ def shared_definitions(jobs: list[Job], examples: dict[str, Example]) -> list[Jo
     by_word: dict[str, set[L.Defined]] = {}
     own: dict[str, set[L.Defined]] = {}
     for job_id, example in examples.items():
-        own[job_id] = {node for text in example.forms if "(defined " in text
-                       for node in L.walk(L.from_text(text)) if isinstance(node, L.Defined)}
+        own[job_id] = {node for text in example.forms for node in defined_in(text)}
         for defined in own[job_id]:
             by_word.setdefault(defined.word, set()).add(defined)
     out = []
