@@ -439,6 +439,8 @@ def _shown(path: Path) -> str:
 
 
 def _teach(args: argparse.Namespace) -> int:
+    from . import logic
+    from .definitions import offered
     from .load import load_table
     from .store import ModelFolder
     from .teaching import read_examples, teach
@@ -448,10 +450,15 @@ def _teach(args: argparse.Namespace) -> int:
     jobs = read_examples(args.examples, table=args.table, table_name=args.table_name)
     jobs = [dataclasses.replace(job, reading=choices) for job in jobs]
     folder = ModelFolder(args.model)
+    known = set(offered(folder.load())) if folder.has_weights() else set()
     with _unless_counted(jobs, f"teaching {len(jobs)} confirmations"):
         report = teach(folder, jobs, args.objective, args.epochs, args.workers)
     print(f"taught {report.taught} confirmations ({report.reachable} with a reading that gives "
           f"the answer; {report.replayed} earlier ones replayed) into {folder.path}")
+    for defined in offered(folder.load()):
+        if defined not in known:   # a team word's meaning found from the answers: say it
+            meaning = logic.paraphrase(defined.rows).removeprefix("rows where ")
+            print(f"  '{printable(defined.word)}' now means: {printable(meaning)}")
     for skipped in report.skipped:
         print(f"  skipped {skipped}", file=sys.stderr)
     return 0

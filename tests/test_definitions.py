@@ -185,3 +185,19 @@ def test_how_many_more_compares_two_team_words_on_one_column_within_a_third(tmp_
     result = tabq.open(path, model=folder.path).ask(
         "how many more heavy drops were in the summer than in the small hours")
     assert matches(result.answer, [expected])
+
+
+def test_teach_says_what_a_team_word_now_means(tmp_path, path, frame):
+    import subprocess
+    import sys
+    big = frame.crates >= 30
+    lines = [("how many heavy drops were there", int(big.sum())),                 # pandas
+             ("total charge of heavy drops", round(float(frame.charge[big].sum()), 2))]
+    examples = tmp_path / "heavy.jsonl"
+    examples.write_text("".join(json.dumps({"question": q, "answer": [a]}) + "\n"
+                                for q, a in lines))
+    out = subprocess.run([sys.executable, "-m", "tabq", "teach", str(path), str(examples),
+                          "--model", str(tmp_path / "cli-model")],
+                         capture_output=True, text=True, timeout=300)
+    assert out.returncode == 0, out.stderr
+    assert "'heavy' now means: crates is at least 30" in out.stdout
