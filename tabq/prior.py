@@ -345,7 +345,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "num:counts_things": 1.5,        # "more than 20 late deliveries": a count per group …
     "num:counted_as_amount": -1.5,   # … not a sum of a column
     "num:compound_compared": -3.0,   # "4-cylinder": cyl = 4, no threshold
-    "num:threshold_as_value": 0.0,   # "than 90" read as a value: weighed by the unsure flag
+    "num:threshold_as_value": -1.5,  # "than 90" read as a value: a threshold, not a cell
     "present:participle": 1.0,
     "share:whole_named": 1.5, "share:whole_as_part": -1.5,   # "of the delivered parcels, …"
     "noun:counted_as_amount": -1.5,  # "the most orders": not order_date, nor any amount of it
