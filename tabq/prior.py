@@ -167,6 +167,14 @@ for _fragment, (_, _cues) in CUES.items():
             _cues[_bound] = -_cues[_word]
 
 
+# "colder than 5": a comparative compares the way its superlative ranks (coldest is a minimum,
+# so colder is below); the superlatives of the extremes say it for every such word.
+for _extreme, _compare in (("extreme:max", "cmp:gt"), ("extreme:min", "cmp:lt")):
+    for _word in list(CUES[_extreme][1]):
+        if _word.endswith("est") and len(_word) > 5 and " " not in _word:
+            CUES[_compare][1].setdefault(f"{_word[:-3]}er than", 2.4)
+
+
 # "heavier than average", "above the mean": the average is what rows are compared with, not a
 # measure asked for (one "average" would otherwise read as both).
 for _fragment in ("avg", "group:avg"):

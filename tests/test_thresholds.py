@@ -1,6 +1,6 @@
-"""A number said after a comparison word is a threshold (issue 16): on an invented greenhouse
-log built here, where the number asked about is also a value of the column, so reading it as
-that value gives another answer.
+"""A number said after a comparison word is a threshold, and a comparative compares the way its
+superlative ranks (issue 16): on an invented greenhouse log built here, where the number asked
+about is also a value of the column, so reading it as that value gives another answer.
 
 Every expected answer is computed by pandas from the same rows (the `# pandas` comment beside
 each), never by tabq. The model is the untaught prior.
@@ -39,3 +39,12 @@ def test_a_number_after_than_is_a_threshold_not_a_cell_value(frame):
     assert above != 100 * (rows.temp == 20).mean()   # the value reading would differ
     assert matches(table.ask("What percentage of days were warmer than 20?").answer, [above])
 
+def test_a_comparative_compares_the_way_its_superlative_ranks(frame):
+    rows, table = frame
+    below = int((rows.temp < 20).sum())         # pandas: days below 20
+    above = int((rows.temp > 20).sum())         # pandas: days above 20
+    assert below != above
+    assert matches(table.ask("How many days were colder than 20?").answer, [below])
+    assert matches(table.ask("How many days were hotter than 20?").answer, [above])
+    drier = int((rows.humidity < 60).sum())     # pandas: days with humidity below 60
+    assert matches(table.ask("How many days had a humidity drier than 60?").answer, [drier])
