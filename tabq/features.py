@@ -13,6 +13,7 @@ learning fills in and `tabq lexicon export` writes out; keep their names readabl
 
 from __future__ import annotations
 
+import re
 from collections.abc import Callable
 from dataclasses import dataclass
 
@@ -327,6 +328,25 @@ def compound_numbers(analysis: Analysis, step: Step) -> Features:
     compounds = {a.span for a in analysis.atoms.get("ENTITY", []) if a.quality == "compound"}
     return {"num:compound_compared": 1.0} if any(
         a.slot == "NUMBER" and a.span in compounds for a in step.atoms) else {}
+
+
+# A header that says its values are already rates, shares or averages (percbelowpoverty,
+# pass_rate, avg_income, cost_per_unit): adding them up means nothing.
+RATE_HEADER = re.compile(r"^(perc|pct|percent|avg|average|mean)|(perc|pct|percent|rate|ratio)$"
+                         r"|(^|_)(per|pct|perc|percent|rate|ratio|avg|mean|share)(_|$)")
+
+
+@node_feature
+def sum_of_rates(analysis: Analysis, step: Step) -> Features:
+    """A total (sum, a group's sum) of a number column whose header names a rate or average."""
+    if not {"sum", "group:sum"} & set(fragments(step)):
+        return {}
+    for atom in step.atoms:
+        if atom.slot.endswith("COL"):
+            col = analysis.table.column(atom.value)
+            if col.kind == "number" and RATE_HEADER.search(col.name.lower()):
+                return {"sum:of_rate": 1.0}
+    return {}
 
 
 THRESHOLD_WORDS = frozenset({"than", "over", "above", "below", "under", "least", "most",

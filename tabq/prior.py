@@ -353,6 +353,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "num:counts_things": 1.5,        # "more than 20 late deliveries": a count per group …
     "num:counted_as_amount": -1.5,   # … not a sum of a column
     "num:compound_compared": -3.0,   # "4-cylinder": cyl = 4, no threshold
+    "sum:of_rate": -1.0,             # a total of percbelowpoverty or avg_income means nothing
     "num:threshold_as_value": -1.5,  # "than 90" read as a value: a threshold, not a cell
     "present:participle": 1.0,
     "share:whole_named": 1.5, "share:whole_as_part": -1.5,   # "of the delivered parcels, …"
