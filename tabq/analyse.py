@@ -829,7 +829,7 @@ def _said_in_plural(words: Words, span: tuple[int, int], column: str) -> bool:
 def _partial(index, span_tokens, stems, span, content, add, table):
     """A phrase inside a longer cell: "derboven" in "Willy Derboven (BEL)"."""
     parts = stems.split()
-    if not parts or not any(k in content for k in range(*span)):
+    if not parts or not any(k in content for k in range(*span)) or _names_a_column(parts, table):
         return
     candidates = index["word"].get(parts[0], [])
     if len(candidates) > 200:   # a very common word says little
@@ -844,6 +844,16 @@ def _partial(index, span_tokens, stems, span, content, add, table):
             continue   # in every value of the column ("sales" in sales_01.csv, sales_02.csv)
         add("ENTITY", (col, value), span, "partial")
         add("CONTAINS", (col, text), span, "partial")
+
+
+def _names_a_column(parts: list[str], table: Table) -> bool:
+    """Whether a phrase's stems are all words of one header: "district" (or "counties") names
+    the column, not the school district whose name holds the word."""
+    headers = table.cache.get("header_stems")
+    if headers is None:       # once per table, not per phrase
+        headers = table.cache["header_stems"] = [
+            frozenset(stem(w) for w in split_words(header_text(col))) for col in table.columns]
+    return any(set(parts) <= header for header in headers)
 
 
 def _fuzzy(index, tokens, content, found, add, deadline=None):
