@@ -19,7 +19,9 @@ featurenames). `offered` lists the definitions a model has learned.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import replace
+from typing import TYPE_CHECKING
 from weakref import WeakKeyDictionary
 
 import numpy as np
@@ -30,6 +32,11 @@ from .analyse import Analysis
 from .execute import run_many
 from .sql import render
 from .table import TABLE, ident
+
+if TYPE_CHECKING:   # only for the hints: these modules import this one
+    from .learn import Example
+    from .model import Model
+    from .pipeline import OpenTable, Reading
 
 MAX_SET_VALUES = 16      # a column with more values is not searched for sets (2^16 subsets)
 MAX_PHRASE_WORDS = 3     # words of a team word
@@ -45,7 +52,7 @@ STRONG = {"exact", "stem", "partial", "abbrev", "code", "flag", "number", "compo
 _OFFERED: WeakKeyDictionary = WeakKeyDictionary()   # model → (its version, its definitions)
 
 
-def offered(model) -> list[L.Defined]:
+def offered(model: Model) -> list[L.Defined]:
     """The definitions a model has learned (a positive weight), as its features spell them."""
     version, found = _OFFERED.get(model, (None, []))
     if version != model.version:
@@ -71,7 +78,7 @@ def defined_in(form_text: str) -> set[L.Defined]:
     return {node for node in L.walk(L.from_text(form_text)) if isinstance(node, L.Defined)}
 
 
-def backed(examples) -> set[L.Defined]:
+def backed(examples: Iterable[Example]) -> set[L.Defined]:
     """The definitions that fit every confirmation offered them: each example (learn.Example)
     whose candidates use a definition has a candidate giving its answer that uses it too."""
     used: dict[L.Defined, bool] = {}
@@ -86,7 +93,7 @@ def backed(examples) -> set[L.Defined]:
     return {defined for defined, fits in used.items() if fits}
 
 
-def remember(model, examples) -> None:
+def remember(model: Model, examples: Iterable[Example]) -> None:
     """Give every definition the confirmations back at least DEFINITION_WEIGHT, so that it is
     offered to later questions (a reading that won without it would teach it nothing), and
     drop the weight of those they refute: a rejected guess is no part of the lexicon."""
@@ -107,7 +114,8 @@ def parts(rows: L.Rows) -> int:
         2 if isinstance(rows, (L.Between, L.Hours, L.Months)) else 1)
 
 
-def rival(best, candidates) -> tuple[L.Defined, L.Defined, object] | None:
+def rival(best: Reading, candidates: list[Reading]
+          ) -> tuple[L.Defined, L.Defined, Reading] | None:
     """Another taught definition of a word the best reading uses that answers the question
     differently in a reading otherwise the same: (the one used, the rival, the rival's
     reading). The data cannot tell them apart; the analyst can."""
@@ -138,7 +146,7 @@ def _shape(form: L.Form) -> str | None:
 
 
 # ── induction ─────────────────────────────────────────────────────────────────────────────────
-def induce(table, question: str, gold: list) -> list[L.Defined]:
+def induce(table: OpenTable, question: str, gold: list) -> list[L.Defined]:
     """Definitions of the question's unexplained words that make its confirmed answer
     reachable: `table` is a pipeline.OpenTable, `gold` the confirmed answer."""
     if len(gold) != 1 or not _is_number(gold[0]):
@@ -303,7 +311,7 @@ def _cuts(table, form: L.Aggregate, place: L.Defined, col, gold: float) -> list[
             out.append(L.Cmp(col.name, "ge", cut))
         if _fits(np.array([below[0]]), np.array([below[1]]), form.fn, gold)[0]:
             out.append(L.Cmp(col.name, "lt", cut))
-    if not out:
+    if not out:   # a threshold says less than a range: ranges only when none fits
         out += _ranges(values, totals, form.fn, gold, col.name)
     return out[:MAX_DEFINITIONS]
 

@@ -80,8 +80,9 @@ def test_a_set_is_induced_from_one_additive_answer(path, frame):
 
 
 def test_a_threshold_is_written_as_the_roundest_cut():
-    assert definitions._roundest(19.7, 20.4) == 20.0
-    assert definitions._roundest(3.0, 3.5) == 3.5 or definitions._roundest(3.0, 3.5) == 3.1
+    assert definitions._roundest(19.7, 20.4) == 20.0      # a whole number lies between
+    assert definitions._roundest(3.0, 3.5) == 3.1          # else the first of the next digit
+    assert definitions._roundest_below(7.9, 8.6) == 8.0
 
 
 def _examples(tmp_path, path, lines: list[tuple[str, object]]):
