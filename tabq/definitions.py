@@ -21,7 +21,6 @@ from __future__ import annotations
 import math
 from collections.abc import Iterable
 from dataclasses import replace
-from typing import TYPE_CHECKING
 from weakref import WeakKeyDictionary
 
 import numpy as np
@@ -31,12 +30,8 @@ from . import logic as L
 from .analyse import Analysis
 from .execute import run_many
 from .sql import render
+from .model import Model
 from .table import TABLE, ident
-
-if TYPE_CHECKING:   # only for the hints: these modules import this one
-    from .learn import Example
-    from .model import Model
-    from .pipeline import OpenTable, Reading
 
 MAX_SET_VALUES = 16      # a column with more values is not searched for sets (2^16 subsets)
 MAX_PHRASE_WORDS = 3     # words of a team word
@@ -78,7 +73,7 @@ def defined_in(form_text: str) -> set[L.Defined]:
     return {node for node in L.walk(L.from_text(form_text)) if isinstance(node, L.Defined)}
 
 
-def backed(examples: Iterable[Example]) -> set[L.Defined]:
+def backed(examples: Iterable) -> set[L.Defined]:
     """The definitions that fit every confirmation offered them: each example (learn.Example)
     whose candidates use a definition has a candidate giving its answer that uses it too."""
     used: dict[L.Defined, bool] = {}
@@ -93,7 +88,7 @@ def backed(examples: Iterable[Example]) -> set[L.Defined]:
     return {defined for defined, fits in used.items() if fits}
 
 
-def remember(model: Model, examples: Iterable[Example]) -> None:
+def remember(model: Model, examples: Iterable) -> None:
     """Give every definition the confirmations back at least DEFINITION_WEIGHT, so that it is
     offered to later questions (a reading that won without it would teach it nothing), and
     drop the weight of those they refute: a rejected guess is no part of the lexicon."""
@@ -114,11 +109,12 @@ def parts(rows: L.Rows) -> int:
         2 if isinstance(rows, (L.Between, L.Hours, L.Months)) else 1)
 
 
-def rival(best: Reading, candidates: list[Reading]
-          ) -> tuple[L.Defined, L.Defined, Reading] | None:
+def rival(best, candidates: list) -> tuple | None:
     """Another taught definition of a word the best reading uses that answers the question
     differently in a reading otherwise the same: (the one used, the rival, the rival's
-    reading). The data cannot tell them apart; the analyst can."""
+    reading), of pipeline.Reading's `best` and `candidates`. The data cannot tell them apart;
+    the analyst can. (Readings, examples and the open table are passed in, not imported: the
+    modules that own them import this one.)"""
     shape = _shape(best.form)
     if shape is None:
         return None
@@ -146,7 +142,7 @@ def _shape(form: L.Form) -> str | None:
 
 
 # ── induction ─────────────────────────────────────────────────────────────────────────────────
-def induce(table: OpenTable, question: str, gold: list) -> list[L.Defined]:
+def induce(table, question: str, gold: list) -> list[L.Defined]:
     """Definitions of the question's unexplained words that make its confirmed answer
     reachable: `table` is a pipeline.OpenTable, `gold` the confirmed answer."""
     if len(gold) != 1 or not _is_number(gold[0]):
