@@ -943,20 +943,24 @@ def _team_word_mentions(words: Words, table: Table, content: set[int],
     names = {col.name for col in table.columns}
     atoms = []
     for defined in team_words:
-        said = phrase_stems(defined.word)
-        if not said or not set(L.columns_of(defined.rows)) <= names:
-            continue
-        for i in range(len(stems) - len(said) + 1):
-            if stems[i:i + len(said)] == said:
-                span = (i, i + len(said))
-                atoms.append(Atom("TEAMWORD", defined, span, "taught",
-                                  sum(1 for k in range(*span) if k in content)))
-                break
+        span = phrase_span(stems, defined.word)
+        if span and set(L.columns_of(defined.rows)) <= names:
+            atoms.append(Atom("TEAMWORD", defined, span, "taught",
+                              sum(1 for k in range(*span) if k in content)))
     return atoms
 
 
+def phrase_span(stems: list[str], phrase: str) -> tuple[int, int] | None:
+    """Where a team word's stems first stand in a row among a question's stems, or None."""
+    said = phrase_stems(phrase)
+    for i in range(len(stems) - len(said) + 1 if said else 0):
+        if stems[i:i + len(said)] == said:
+            return i, i + len(said)
+    return None
+
+
 def phrase_stems(phrase: str) -> list[str]:
-    """A team word's stems as a question's tokens carry them."""
+    """A question's or a team word's stems as a question's tokens carry them."""
     return [t.stem for t in read_question(phrase).tokens if is_word(t.text)]
 
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field, replace
 
 from .. import logic as L
-from ..analyse import phrase_stems
+from ..analyse import phrase_span, phrase_stems
 from ..definitions import defined_in, remember
 
 from ..pipeline import OpenTable
@@ -118,9 +118,8 @@ def shared_definitions(jobs: list[Job], examples: dict[str, Example]) -> list[Jo
             by_word.setdefault(defined.word, set()).add(defined)
     out = []
     for job in jobs:
-        stems = " ".join(phrase_stems(job.question))
-        offer = {d for word, defs in by_word.items()
-                 if f" {' '.join(phrase_stems(word))} " in f" {stems} " for d in defs}
+        stems = phrase_stems(job.question)
+        offer = {d for word, defs in by_word.items() if phrase_span(stems, word) for d in defs}
         if job.id in examples and offer - own.get(job.id, set()):
             out.append(replace(job, team_words=tuple(sorted(offer, key=str))))
     return out
