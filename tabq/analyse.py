@@ -157,12 +157,15 @@ CODES_READ = 20   # of a column's values checked for the code pattern
 
 def is_id(col: Column, table: Table) -> bool:
     """A column that names each row once, by an id header ("order_id", "order_no") or by code
-    values ("CW-4012"): its word names the rows, and its values are names, not quantities."""
-    if not col.distinct >= table.row_count > 1:
-        return False
-    name = col.base.lower()
-    return name.endswith(ID_ENDINGS) or col.kind == "text" and bool(col.values) and all(
-        _CODE.match(v) for v in col.values[:CODES_READ])
+    values ("CW-4012"): its word names the rows, and its values are names, not quantities.
+    Kept per table: the features ask it of every column in every step of the chart."""
+    known = table.cache.setdefault("is_id", {})
+    if col.name not in known:
+        name = col.base.lower()
+        known[col.name] = col.distinct >= table.row_count > 1 and (
+            name.endswith(ID_ENDINGS) or col.kind == "text" and bool(col.values) and all(
+                _CODE.match(v) for v in col.values[:CODES_READ]))
+    return known[col.name]
 
 
 def question_grams(question: str) -> tuple[str, ...]:
