@@ -27,7 +27,7 @@ import numpy as np
 
 from . import featurenames
 from . import logic as L
-from .analyse import Analysis
+from .analyse import Analysis, is_id
 from .execute import run_many
 from .sql import render
 from .model import Model
@@ -227,7 +227,7 @@ def _swap(form: L.Form, place: L.Defined, rows: L.Rows) -> L.Form:
 def _fitting(table, form: L.Aggregate, place: L.Defined, gold: float) -> list[L.Rows]:
     out: list[L.Rows] = []
     for col in table.columns:
-        if col.view is not None:
+        if col.view is not None or is_id(col, table):   # a word is no list of order numbers
             continue
         if col.kind in ("text", "bool") and 2 <= col.distinct <= MAX_SET_VALUES:
             values = [v for v in col.values if v is not None]

@@ -202,3 +202,31 @@ def test_teach_says_what_a_team_word_now_means(tmp_path, path, frame):
                          capture_output=True, text=True, timeout=300)
     assert out.returncode == 0, out.stderr
     assert "'heavy' now means: crates is at least 30" in out.stdout
+
+
+def test_teach_says_when_a_confirmation_teaches_nothing(tmp_path, path):
+    import subprocess
+    import sys
+    examples = tmp_path / "none.jsonl"
+    examples.write_text(json.dumps({"question": "how many drops went to Atlantis",
+                                    "answer": [987654321]}) + "\n")
+    out = subprocess.run([sys.executable, "-m", "tabq", "teach", str(path), str(examples),
+                          "--model", str(tmp_path / "cli-model")],
+                         capture_output=True, text=True, timeout=300)
+    assert out.returncode == 0, out.stderr
+    assert ("nothing learned from 'how many drops went to Atlantis': no reading of it gives "
+            "987654321") in out.stdout
+
+
+def test_no_team_word_is_induced_as_a_list_of_row_ids(tmp_path):
+    """On a small table a count fits many subsets of an id column's values; a team word never
+    means "these order numbers", so only the other columns are searched."""
+    crates = [3, 35, 8, 31, 12, 40, 5, 33, 9, 14, 38, 2]
+    frame = pd.DataFrame({"drop_no": [f"GD-{i}" for i in range(len(crates))],
+                          "village": (VILLAGES * 2)[:len(crates)], "crates": crates})
+    path = tmp_path / "drops.csv"
+    frame.to_csv(path, index=False)
+    bulky = sum(c >= 30 for c in crates)                                  # by hand: 5
+    found = definitions.induce(tabq.open(path), "how many bulky drops were there", [bulky])
+    assert L.Cmp("crates", "ge", 20.0) in [d.rows for d in found]   # the roundest cut in 14–30
+    assert found and not any(d.rows.col == "drop_no" for d in found)
