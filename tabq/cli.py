@@ -459,6 +459,11 @@ def _teach(args: argparse.Namespace) -> int:
         if defined not in known:   # a team word's meaning found from the answers: say it
             meaning = logic.paraphrase(defined.rows).removeprefix("rows where ")
             print(f"  '{printable(defined.word)}' now means: {printable(meaning)}")
+    for record in report.records:
+        if record.query is None and record.id not in report.skipped:
+            print(f"  nothing learned from '{printable(record.question)}': no reading of it "
+                  f"gives {printable(', '.join(map(str, record.answer)))}; it is logged and "
+                  "teaches once one does (teach its words in simpler questions first)")
     for skipped in report.skipped:
         print(f"  skipped {skipped}", file=sys.stderr)
     return 0
