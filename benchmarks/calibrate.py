@@ -69,6 +69,7 @@ class Question:
     answers: list[dict]    # per distinct answer: reading scores (best first), right, signals
     complete: bool
     never_used: list[str]  # content words of the question no executed reading uses
+    question: str = ""
     commit: str = ""       # the code it was asked with (see `commit`)
 
 
@@ -96,10 +97,12 @@ def _ask_group(args: tuple[str, str, list[dict]]) -> list[dict]:
                     "unused": list(g[0].unused), "unused_columns": len(g[0].unused_columns),
                     "nothing": pipeline.gives_nothing(g[0]),
                     "value_doubts": len(pipeline.value_doubts(g[0])),
+                    "size": len(g[0].answer), "features": dict(g[0].features),
+                    "kinds": sorted({type(v).__name__ for v in g[0].answer}),
                     **{f: g[0].features.get(f, 0.0) for f in SIGNAL_FEATURES}}
                    for g in groups.values()]
         out.append({"set": name, "id": ex["id"], "kind": ex.get("kind", name),
-                    "answers": answers, "complete": result.complete,
+                    "question": ex["question"], "answers": answers, "complete": result.complete,
                     "never_used": list(pipeline.never_used(result.candidates))})
     return out
 
