@@ -179,6 +179,19 @@ def _of_wh_kind(analysis: Analysis, col, atom: Atom) -> bool:
         analysis.qtype == "when" and col.kind == "date")
 
 
+SUPERLATIVES = frozenset({"most", "least", "fewest", "best", "worst", "top"})
+
+
+def _after_superlative(analysis: Analysis, span: tuple[int, int]) -> bool:
+    """Whether a column is named right after a superlative ("the day with the most ozone",
+    "the car with the best highway mpg"): that column orders the rows, so a reading that
+    answers with its values has the roles the wrong way round."""
+    if span[0] == 0:
+        return False
+    word = analysis.words.tokens[span[0] - 1].text
+    return word in SUPERLATIVES or word.endswith("est") and degree_base(word) is not None
+
+
 def _degree_word(analysis: Analysis, span: tuple[int, int]) -> bool:
     """Whether a column was named by a comparative or superlative ("warmest", "heavier")."""
     return span[1] - span[0] == 1 and degree_base(analysis.words.tokens[span[0]].text) is not None
@@ -392,6 +405,21 @@ def nesting(analysis: Analysis, step: Step) -> Features:
             if any(isinstance(n, (Extreme, Position)) for n in walk(form)):
                 _add(feats, "super:nested")
     return feats
+
+
+@child_feature
+def answered_after_superlative(analysis: Analysis, step: Step) -> Features:
+    """The column named right after a superlative orders the rows ("the temperature on the day
+    with the most ozone"): a reading that answers with it and orders by another column has the
+    roles the wrong way round ("the 3 highest ozone readings" orders by ozone itself)."""
+    atom = _first_column(step)
+    if spec_of(step.rule).role != "values" or atom is None or not atom.span \
+            or not _after_superlative(analysis, atom.span):
+        return {}
+    others = {a.value for a in step.atoms if a.slot.endswith("COL")} - {atom.value}
+    if others or any(cols - {atom.value} for cols in step.child_columns):
+        return {"values.after_superlative": 1.0}
+    return {}
 
 
 @child_feature
