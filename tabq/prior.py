@@ -391,7 +391,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "den:who|text": 1.0, "den:who|number": -1.5, "den:who|date": -1.5,
     "den:which|text": 0.6, "den:which|number": -0.8, "den:which|date": -0.5,
     "den:where|text": 0.8, "den:where|number": -1.5,
-    "den:yes_no|yesno": 1.0, "den:yes_no|number": -0.5, "den:other|yesno": -3.0,
+    "den:yes_no|yesno": 1.0, "den:yes_no|number": -0.5, "den:yes_no|text": -1.0, "den:other|yesno": -3.0,
     "den:how_many|yesno": -3.0, "den:which|yesno": -3.0, "den:what|yesno": -3.0,
     "den:who|yesno": -3.0, "den:when|yesno": -3.0,
     "den:repeats_number": -1.5, "den:table": -0.5, "den:list|many": 0.6,

@@ -9,7 +9,8 @@ deliveries built here. Each check is one kind of question, not one wording:
 - a number that counts the answers ("which 3 shops"): that many answers;
 - one comparison with the average for one "than the average";
 - "who": a column of people's names, not the row's id;
-- "which X have … with no Y recorded": the distinct values, not one best group.
+- "which X have … with no Y recorded": the distinct values, not one best group;
+- "was PX-2 refrigerated?" over a Y/N column: yes or no, not the cell's code (own small table).
 
 Every expected answer is computed by pandas from the same rows (the `pandas:` comment beside
 each), never by tabq. The model is the untaught prior.
@@ -132,3 +133,20 @@ def test_money_verbs_name_the_price(table, frame):
     # pandas: the total price of Oven Door's deliveries ("charged" names price)
     expected = round(float(frame[frame.shop == "Oven Door"].price.sum()), 2)
     assert matches(_ask(table, "How much was Oven Door charged altogether?"), [expected])
+
+
+
+def test_a_yes_no_question_about_a_coded_cell_is_answered_yes_or_no(tmp_path):
+    """"Was PX-2 refrigerated?" over a column coded Y/N asks whether: yes or no, not the code."""
+    rng = random.Random(77)
+    frame = pd.DataFrame({"parcel": [f"PX-{i}" for i in range(40)],
+                          "depot": [rng.choice(["Harrowgate", "Lowfield"]) for _ in range(40)],
+                          "refrigerated": [rng.choice("YN") for _ in range(40)],
+                          "weight_kg": [round(rng.uniform(1, 30), 1) for _ in range(40)]})
+    path = tmp_path / "parcels.csv"
+    frame.to_csv(path, index=False)
+    table = tabq.open(path, model=tabq.Model.prior())
+    for parcel in ("PX-2", "PX-3", "PX-5"):
+        code = frame.set_index("parcel").refrigerated[parcel]                       # pandas
+        result = table.ask(f"Was {parcel} refrigerated?")
+        assert matches(result.answer, ["yes" if code == "Y" else "no"]), (parcel, code)
