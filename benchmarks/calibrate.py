@@ -9,9 +9,10 @@ do), keeps each distinct answer's reading scores and whether it is right, then f
 AGREEMENT (how an answer's readings make its score: the grid value with the most top answers
 right), TEMPERATURE only with --refit-temperature (least log loss of "the top answer is right"
 against the probability shown; kept otherwise, see `fit`) and the unsure flag: GAP_WEIGHT,
-COLUMN_WORD_WEIGHT, NOTHING_WEIGHT and VALUE_DOUBT_WEIGHT by logistic regression of "the top
-answer is right" on the runner-up's distance, the column-naming words the top reading ignores,
-whether its answer is 0 or nothing and its doubtful readings of a value (one intercept per
+COLUMN_WORD_WEIGHT, NOTHING_WEIGHT, VALUE_DOUBT_WEIGHT and GUESSED_COLUMN_WEIGHT by logistic
+regression of "the top answer is right" on the runner-up's distance, the column-naming words the
+top reading ignores, whether its answer is 0 or nothing, its doubtful readings of a value and
+the columns it uses that no word of the question names (one intercept per
 family, so the families' different accuracies do not bend the weights), then SURE_SCORE, the
 lowest sureness from which the top answers on each table of the FLAG_SETS families are right at
 least PRECISION of the time. Every family of sets (a folder) weighs the same, so the 619
@@ -219,13 +220,15 @@ FLAG_SETS = ("zeroshot", "zeroshot3", "monthday")   # plain questions written fo
 L2 = 1e-3           # ridge, so a set whose answers are all right (or all wrong) stays finite
 
 
-def sureness_inputs(t: Top) -> tuple[float, float, float, float]:
+def sureness_inputs(t: Top) -> tuple[float, float, float, float, float]:
     """What `pipeline.sureness` weighs: the runner-up's distance, capped, the words naming
-    a column that the top reading leaves unused, whether the top answer is 0 or nothing, and
-    its doubtful readings of a value (`pipeline.value_doubts`)."""
+    a column that the top reading leaves unused, whether the top answer is 0 or nothing, its
+    doubtful readings of a value (`pipeline.value_doubts`) and its guessed columns
+    (`pipeline.guessed_columns`)."""
     answer = t.answer or {}
     return (min(t.gap, calibration.GAP_CAP), float(answer.get("unused_columns", 0)),
-            float(answer.get("nothing", False)), float(answer.get("value_doubts", 0)))
+            float(answer.get("nothing", False)), float(answer.get("value_doubts", 0)),
+            float(answer.get("features", {}).get(pipeline.GUESSED_COLUMN, 0.0)))
 
 
 def flag_sets(sets: dict[str, list]) -> dict[str, list]:
@@ -243,26 +246,28 @@ class Fit:
     column_word_weight: float = 0.0
     nothing_weight: float = 0.0
     value_doubt_weight: float = 0.0
+    guessed_column_weight: float = 0.0
     sure_score: float = -math.inf
 
     def tops(self, questions: list[Question]) -> list[Top]:
         return [top(q, self.agreement, self.temperature) for q in questions]
 
     def sureness(self, t: Top) -> float:
-        gap, words, nothing, doubts = sureness_inputs(t)
+        gap, words, nothing, doubts, guessed = sureness_inputs(t)
         return self.gap_weight * gap - self.column_word_weight * words \
-            - self.nothing_weight * nothing - self.value_doubt_weight * doubts
+            - self.nothing_weight * nothing - self.value_doubt_weight * doubts \
+            - self.guessed_column_weight * guessed
 
     def flagged(self, t: Top) -> bool:
         """As `pipeline.unsure_reason` decides."""
         return t.answer is None or not t.complete or self.sureness(t) < self.sure_score
 
 
-def fit_weights(tops: dict[str, list[Top]]) -> tuple[float, float, float, float]:
+def fit_weights(tops: dict[str, list[Top]]) -> tuple[float, float, float, float, float]:
     """Logistic regression of "the top answer is right" on `sureness_inputs`, with one intercept
     per family (what its accuracy is, which a new question does not say), each family weighing
     the same; Newton's method. Returns the gap's weight, then the column words', the empty
-    answer's and the value doubts' weights (as costs)."""
+    answer's, the value doubts' and the guessed columns' weights (as costs)."""
     names = sorted(tops)
     rows = [(names.index(n), t) for n in names for t in tops[n] if t.answer is not None]
     x = np.array([[*sureness_inputs(t), *(float(k == i) for k in range(len(names)))]
@@ -279,8 +284,7 @@ def fit_weights(tops: dict[str, list[Top]]) -> tuple[float, float, float, float]
         theta -= step
         if np.abs(step).max() < 1e-10:
             break
-    return (round(float(theta[0]), 3), round(float(-theta[1]), 3), round(float(-theta[2]), 3),
-            round(float(-theta[3]), 3))
+    return (round(float(theta[0]), 3), *(round(float(-theta[k]), 3) for k in range(1, 5)))
 
 
 @dataclass
@@ -312,7 +316,8 @@ def fit_sure_score(tops: dict[str, list[Top]], f: Fit) -> float:
     levels = sorted({round(f.sureness(t), 3) for ts in tops.values() for t in ts
                      if t.answer is not None})
     tried = [Fit(f.agreement, f.temperature, f.gap_weight, f.column_word_weight,
-                 f.nothing_weight, f.value_doubt_weight, level) for level in levels]
+                 f.nothing_weight, f.value_doubt_weight, f.guessed_column_weight, level)
+             for level in levels]
     fits = [g for g in tried if worst(tops, g) >= PRECISION]
     return (fits[0] if fits else max(tried, key=lambda g: worst(tops, g))).sure_score
 
@@ -352,6 +357,7 @@ CANDIDATES = {
     "- words naming a column it ignores": lambda t: -t.answer["unused_columns"],
     "- answer 0 or nothing": lambda t: -float(t.answer.get("nothing", False)),
     "- doubtful value readings": lambda t: -float(t.answer.get("value_doubts", 0)),
+    "- columns no word names": lambda t: -t.answer.get("features", {}).get("col:none", 0.0),
     "- words it ignores": lambda t: -len(t.answer["unused"]),
     "- words no reading uses": lambda t: -len(t.never_used),
     "- strong cue unexplained": lambda t: -t.answer["cue:unexplained"],
@@ -467,8 +473,9 @@ flag thresholds `pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in 
 GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores
 (not one whose values name the rows: `pipeline.names_rows`) − NOTHING_WEIGHT when the top answer
 is 0 or nothing − VALUE_DOUBT_WEIGHT × its doubtful readings of a value (`pipeline.VALUE_DOUBTS`:
-a number after a comparison word read as a cell value, a value matched by part of its name).
-The four weights: logistic regression of "the top answer is right" on those inputs, one
+a number after a comparison word read as a cell value, a value matched by part of its name)
+− GUESSED_COLUMN_WEIGHT × the columns it uses that no word of the question names
+(`pipeline.guessed_columns`). The five weights: logistic regression of "the top answer is right" on those inputs, one
 intercept per family. SURE_SCORE: the lowest sureness from which the top answers on each table
 of the zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
 WikiTableQuestions and the untaught team words no threshold gets there short of flagging nearly
@@ -485,6 +492,7 @@ GAP_WEIGHT = {f.gap_weight}  # sureness per point of distance between the top an
 COLUMN_WORD_WEIGHT = {f.column_word_weight}  # sureness lost per word naming a column the top reading ignores
 NOTHING_WEIGHT = {f.nothing_weight}  # sureness lost when the top answer is 0 or nothing
 VALUE_DOUBT_WEIGHT = {f.value_doubt_weight}  # sureness lost per doubtful reading of a value
+GUESSED_COLUMN_WEIGHT = {f.guessed_column_weight}  # sureness lost per column no word names
 SURE_SCORE = {f.sure_score}  # the sureness from which the top answer is not flagged unsure
 '''
 
@@ -501,7 +509,7 @@ def constants(f: Fit) -> str:
     return (f"AGREEMENT = {f.agreement}, TEMPERATURE = {f.temperature}, GAP_WEIGHT = "
             f"{f.gap_weight}, COLUMN_WORD_WEIGHT = {f.column_word_weight}, "
             f"NOTHING_WEIGHT = {f.nothing_weight}, VALUE_DOUBT_WEIGHT = {f.value_doubt_weight}, "
-            f"SURE_SCORE = {f.sure_score}")
+            f"GUESSED_COLUMN_WEIGHT = {f.guessed_column_weight}, SURE_SCORE = {f.sure_score}")
 
 
 def print_reliability(tops: list[Top]) -> None:
@@ -514,7 +522,8 @@ def measure(sets: dict[str, list[Question]], picture: Path | None) -> None:
     """The constants in use, measured on sets they were not fitted on."""
     f = Fit(calibration.AGREEMENT, calibration.TEMPERATURE, calibration.GAP_WEIGHT,
             calibration.COLUMN_WORD_WEIGHT, calibration.NOTHING_WEIGHT,
-            calibration.VALUE_DOUBT_WEIGHT, calibration.SURE_SCORE)
+            calibration.VALUE_DOUBT_WEIGHT, calibration.GUESSED_COLUMN_WEIGHT,
+            calibration.SURE_SCORE)
     print(f"measured with {constants(f)}")
     for name, qs in sets.items():
         print(report(name, f.tops(qs), f))

@@ -14,22 +14,24 @@ flag thresholds `pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in 
 GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores
 (not one whose values name the rows: `pipeline.names_rows`) − NOTHING_WEIGHT when the top answer
 is 0 or nothing − VALUE_DOUBT_WEIGHT × its doubtful readings of a value (`pipeline.VALUE_DOUBTS`:
-a number after a comparison word read as a cell value, a value matched by part of its name).
-The four weights: logistic regression of "the top answer is right" on those inputs, one
+a number after a comparison word read as a cell value, a value matched by part of its name)
+− GUESSED_COLUMN_WEIGHT × the columns it uses that no word of the question names
+(`pipeline.guessed_columns`). The five weights: logistic regression of "the top answer is right" on those inputs, one
 intercept per family. SURE_SCORE: the lowest sureness from which the top answers on each table
 of the zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
 WikiTableQuestions and the untaught team words no threshold gets there short of flagging nearly
 all). GAP_CAP is set, not fitted: a runner-up 3 points behind holds under 5% of the top
 answer's probability.
-Asked at commit e3802aa+ ("+": with uncommitted changes).
+Asked at commit b65df15+ ("+": with uncommitted changes).
 Refit: python benchmarks/calibrate.py --write.
 """
 
 AGREEMENT = 0.0  # weight of the log-sum-exp bonus for other readings giving the same answer
 TEMPERATURE = 1.0443  # answer scores are divided by this before the softmax
 GAP_CAP = 3.0  # the runner-up's distance counts up to this much
-GAP_WEIGHT = 1.115  # sureness per point of distance between the top answer and the runner-up
-COLUMN_WORD_WEIGHT = 1.603  # sureness lost per word naming a column the top reading ignores
-NOTHING_WEIGHT = 1.273  # sureness lost when the top answer is 0 or nothing
-VALUE_DOUBT_WEIGHT = 0.744  # sureness lost per doubtful reading of a value
-SURE_SCORE = 0.112  # the sureness from which the top answer is not flagged unsure
+GAP_WEIGHT = 1.087  # sureness per point of distance between the top answer and the runner-up
+COLUMN_WORD_WEIGHT = 1.616  # sureness lost per word naming a column the top reading ignores
+NOTHING_WEIGHT = 1.267  # sureness lost when the top answer is 0 or nothing
+VALUE_DOUBT_WEIGHT = 0.872  # sureness lost per doubtful reading of a value
+GUESSED_COLUMN_WEIGHT = 0.653  # sureness lost per column no word names
+SURE_SCORE = 0.109  # the sureness from which the top answer is not flagged unsure

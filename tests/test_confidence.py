@@ -298,3 +298,25 @@ def test_a_threshold_read_as_a_cell_value_is_a_doubt(hives):
     sure = pipeline.sureness(doubted)
     doubted.readings[0].features = {"num:threshold_as_value": 1.0}
     assert pipeline.sureness(doubted) == pytest.approx(sure - calibration.VALUE_DOUBT_WEIGHT)
+
+
+def test_a_column_no_word_names_is_a_guess_that_lowers_the_sureness(hives):
+    """"How many hives have more than 12?" names no column: every reading picks one, and the
+    one shown says so; a top answer with a guessed column is less sure by
+    GUESSED_COLUMN_WEIGHT per column."""
+    table = tabq.open(hives, model=tabq.Model.prior())
+    result = table.ask("How many hives have more than 12?")
+    assert pipeline.guessed_columns(result.best) >= 1
+    named = table.ask("How many hives have more than 12 frames?")
+    assert pipeline.guessed_columns(named.best) == 0
+    guessed = _result([2.0, 1.5])
+    sure = pipeline.sureness(guessed)
+    guessed.readings[0].features = {pipeline.GUESSED_COLUMN: 2.0}
+    assert pipeline.sureness(guessed) == pytest.approx(
+        sure - 2 * calibration.GUESSED_COLUMN_WEIGHT)
+    gap = (calibration.SURE_SCORE + calibration.GUESSED_COLUMN_WEIGHT / 2) / \
+        calibration.GAP_WEIGHT
+    close = _result([1.0, 1.0 - gap])
+    assert not close.unsure
+    close.readings[0].features = {pipeline.GUESSED_COLUMN: 1.0}
+    assert close.unsure and "no word of the question names" in close.unsure_reason
