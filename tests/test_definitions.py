@@ -230,3 +230,64 @@ def test_no_team_word_is_induced_as_a_list_of_row_ids(tmp_path):
     found = definitions.induce(tabq.open(path), "how many bulky drops were there", [bulky])
     assert L.Cmp("crates", "ge", 20.0) in [d.rows for d in found]   # the roundest cut in 14–30
     assert found and not any(d.rows.col == "drop_no" for d in found)
+
+
+def test_the_app_sets_rival_meanings_side_by_side_and_a_pick_keeps_one(tmp_path, path, frame):
+    """Where two taught meanings of a word answer a question differently, the app's compare
+    action sets them side by side with rows where they differ; the analyst's pick is logged with
+    those rows and the rival meaning no longer fits what was taught."""
+    from tabq.ui.session import Session
+    big = frame.crates >= 30
+    folder = ModelFolder(tmp_path / "once")
+    teach(folder, _examples(tmp_path, path, [("how many heavy drops were there",
+                                              int(big.sum()))]))          # pandas
+    session = Session(path, model=folder.path)
+    result = session.ask("how many heavy drops went to Crowmoor")
+    readings = session.competing(result, 0)
+    assert len(readings) == 2 and readings[0].answer != readings[1].answer
+    comparison = session.compare(readings)
+    assert comparison.rows                       # rows one meaning selects and the other not
+    taught = session.pick(result.question, comparison, 1)     # the analyst means the rival
+    assert taught.record.rows == list(comparison.rows) and taught.reachable
+    meanings = {d.rows for d in definitions.offered(folder.load())}
+    picked, dropped = ([n for n in L.walk(r.form) if isinstance(n, L.Defined)][0]
+                       for r in (readings[1], readings[0]))
+    assert picked.rows in meanings and dropped.rows not in meanings
+
+
+def test_in_the_app_d_compares_rival_meanings_and_a_number_picks_one(tmp_path, path, frame):
+    """The same through the terminal app (Pilot): the unsure top answer, 'd', the screen that
+    says the meanings answer differently, '2', and the pick in the model folder's log."""
+    import asyncio
+
+    from tabq.ui.app import TabqApp
+    from tabq.ui.widgets import CompareScreen
+    folder = ModelFolder(tmp_path / "once")
+    teach(folder, _examples(tmp_path, path, [("how many heavy drops were there",
+                                              int((frame.crates >= 30).sum()))]))  # pandas
+    question = "how many heavy drops went to Crowmoor"
+
+    async def run():
+        app = TabqApp(path, folder.path)
+        async with app.run_test(size=(100, 32)) as pilot:
+            app.query_one("#question").value = question
+            app.query_one("#question").focus()
+            await pilot.press("enter")
+            for _ in range(1200):
+                if app.result is not None and app.result.question == question:
+                    break
+                await pilot.pause(0.05)
+            assert app.result.unsure
+            await pilot.press("d")
+            for _ in range(1200):
+                if isinstance(app.screen, CompareScreen):
+                    break
+                await pilot.pause(0.05)
+            assert "answer differently" in str(app.screen.query_one("#compare-title").render())
+            await pilot.press("2")
+            for _ in range(1800):
+                if len(folder.read_log()) == 2:
+                    break
+                await pilot.pause(0.05)
+            assert folder.read_log()[-1].rows
+    asyncio.run(run())

@@ -280,11 +280,12 @@ class TabqApp(App):
             self.push_screen(AnswerPrompt(question),
                              lambda typed: typed and self.search_typed(question, typed))
         elif event.action == "compare":
-            if len(self.alikes[event.index]) < 2:
+            readings = self.session.competing(self.result, event.index)
+            if len(readings) < 2:
                 self.say("Only one reading gives this answer: nothing to compare.", "warn")
                 return
             self.say("looking for rows where the readings differ…", busy=True)
-            self.compare(self.result.question, self.alikes[event.index])
+            self.compare(self.result.question, readings)
 
     @work(thread=True, group="teach")
     def teach(self, question: str, answer: list, kind: str = "confirm") -> None:

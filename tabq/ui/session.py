@@ -21,6 +21,7 @@ from sqlglot import exp
 from .. import api
 from .. import logic as L
 from ..answers import Denotation, matches
+from ..definitions import rival
 from ..execute import run_on_rows, run_sql
 from ..table import ROW, TABLE, ReadChoices
 from ..model import Model
@@ -61,7 +62,8 @@ class Event:
 
 @dataclass
 class Comparison:
-    """Readings that give the same answer on the whole table, and rows where they differ."""
+    """Readings side by side (look-alikes giving one answer on the whole table, or two taught
+    meanings of a word giving two), and rows where they differ."""
 
     readings: list[api.Reading]
     rows: tuple[int, ...] | None       # None when no subset of rows tells them apart
@@ -108,6 +110,15 @@ class Session:
                 picked.append(c)
         picked += [c for c in near if c not in picked]
         return picked[:CLARIFY_MOST]
+
+    def competing(self, result: api.Result, index: int) -> list[api.Reading]:
+        """The readings to set beside the one at `index`: for the top answer, the reading a
+        rival definition of a taught word gives when there is one (`definitions.rival`: what
+        was taught fits both, the answers differ, and the unsure reason names the two); else
+        those giving its answer by other SQL."""
+        reading = result.readings[index]
+        clash = rival(reading, result.candidates) if index == 0 else None
+        return [reading, clash[2]] if clash else self.look_alikes(result, reading)
 
     def compare(self, readings: list[api.Reading], seed: int = 0) -> Comparison:
         """Readings side by side, with the smallest rows found where their answers differ."""

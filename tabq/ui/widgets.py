@@ -228,10 +228,7 @@ class CompareScreen(ModalScreen[int | None]):
     def compose(self) -> ComposeResult:
         c = self.comparison
         with Vertical(id="compare-box"):
-            yield Static(Text("These readings all give ", style="bold") + Text(
-                self.answer, style="bold #9ad0c2") + Text(" on this table, but mean different "
-                                                          "things. Which one did you mean?",
-                                                          style="bold"), id="compare-title")
+            yield Static(self._title(), id="compare-title")
             with Horizontal(id="compare-side"):
                 for i, reading in enumerate(c.readings):
                     parts = [Text(f"{i + 1}", style="bold reverse #c39bd3"), Text(""),
@@ -245,6 +242,15 @@ class CompareScreen(ModalScreen[int | None]):
             yield Static(self._sample(), id="compare-rows")
             yield Static(Text("1/2/3: pick the meant reading (taught as a strong signal) · "
                               "escape: cancel", style="#8a94a0"))
+
+    def _title(self) -> Text:
+        if len({repr(r.answer) for r in self.comparison.readings}) > 1:   # rival meanings
+            return Text("What was taught fits these meanings alike, but here they answer "
+                        "differently. Which one did you mean?", style="bold")
+        return Text("These readings all give ", style="bold") + Text(
+            self.answer, style="bold #9ad0c2") + Text(" on this table, but mean different "
+                                                      "things. Which one did you mean?",
+                                                      style="bold")
 
     def _sample(self):
         c = self.comparison
