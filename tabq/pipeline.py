@@ -10,7 +10,7 @@ from dataclasses import dataclass, field
 
 from . import calibration
 from . import logic as L
-from .analyse import Analysis, OutOfTime, analyse, column_words
+from .analyse import Analysis, OutOfTime, analyse, column_words, names_rows
 from .answers import Denotation
 from .definitions import offered, rival
 from .derive import PAIR_BEAM, Item, derive
@@ -29,7 +29,6 @@ SETTLED = 3             # distinct readings that must come out exactly as if all
 MASS_TOLERANCE = 0.01   # share of probability the skipped candidates may hold at most
 MAX_WORDS = 3           # question words no reading uses, named in the unsure reason
 DEFINITIONS_DISAGREE = "what was taught fits two meanings of"   # opens that unsure reason
-ROW_NAMES_SHARE = 0.5   # of the rows a text column's distinct values number to name the rows
 
 
 @dataclass
@@ -203,16 +202,6 @@ class OpenTable:
         if form not in cache:
             cache[form] = L.paraphrase(form, self.label)
         return cache[form]
-
-
-def names_rows(table: Table, name: str) -> bool:
-    """A text column with a value for most rows (parcel codes, county names): a word naming it
-    ("how many parcels", "counties in Ohio") names the things the rows are, which a reading
-    counts or filters without that column, so leaving the word unused is no sign of a misread
-    (on the zero-shot sets, top answers ignoring only such words were right 87% of the time,
-    those ignoring none 82%, those ignoring a word naming another column 64%)."""
-    col = table.column(name)
-    return col.kind == "text" and col.distinct >= ROW_NAMES_SHARE * table.row_count > 0
 
 
 def unsure_reason(result: Result) -> str | None:

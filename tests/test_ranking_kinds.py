@@ -11,6 +11,8 @@ deliveries built here. Each check is one kind of question, not one wording:
 - "who": a column of people's names, not the row's id;
 - "which X have … with no Y recorded": the distinct values, not one best group;
 - "was PX-2 refrigerated?" over a Y/N column: yes or no, not the cell's code (own small table).
+- "how many drivers": the distinct names of a column of names; "how many late deliveries" over
+  a yes/no column still counts rows.
 
 Every expected answer is computed by pandas from the same rows (the `pandas:` comment beside
 each), never by tabq. The model is the untaught prior.
@@ -150,3 +152,22 @@ def test_a_yes_no_question_about_a_coded_cell_is_answered_yes_or_no(tmp_path):
         code = frame.set_index("parcel").refrigerated[parcel]                       # pandas
         result = table.ask(f"Was {parcel} refrigerated?")
         assert matches(result.answer, ["yes" if code == "Y" else "no"]), (parcel, code)
+
+
+@pytest.mark.parametrize("question, column", [
+    ("How many drivers are there?", "driver"),
+    ("How many shops are there?", "shop"),
+    ("How many shops did Lena Ouko deliver to?", "shop"),
+])
+def test_how_many_of_a_column_of_names_counts_the_names(table, frame, question, column):
+    """"How many drivers": the drivers (a column of names that repeat), not the deliveries."""
+    rows = frame[frame.driver == "Lena Ouko"] if "Lena" in question else frame
+    want = rows[column].replace("", pd.NA).nunique()                            # pandas
+    assert matches(table.ask(question).answer, [want]), table.ask(question).sql
+
+
+def test_how_many_of_a_flag_still_counts_the_rows(table, frame):
+    """"How many late deliveries": late is a yes/no property of the rows counted."""
+    want = int(((frame.late == "yes") & (frame.driver == "Lena Ouko")).sum())   # pandas
+    result = table.ask("How many late deliveries did Lena Ouko make?")
+    assert matches(result.answer, [want]), result.sql
