@@ -372,7 +372,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
         "count_distinct", "group_best_count", "group_best", "group_top_count", "group_top")},
     "cmp:date_year": -0.2, "cmp:out_of_range": -1.0, "num:as_entity": 0.3,
     "size": -0.25, "rows:all": 0.0, "rows:nested": -0.4,
-    "super:nested": -3.0, "cue:unexplained": -1.2, "den:repeats": -1.5,
+    "super:nested": -3.0, "cue:unexplained": -1.2, "den:repeats": -3.0,
     "head:count_distinct": 2.5, "head:values": 0.6, "head:aggregate": 0.8,
     "whhead:values": 1.2, "whhead:distinct": 1.2, "whhead:group_best": 1.2,
     "whhead:group_best_count": 1.2, "whhead:group_top": 1.2, "whhead:group_top_count": 1.2,

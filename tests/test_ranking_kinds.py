@@ -12,7 +12,8 @@ deliveries built here. Each check is one kind of question, not one wording:
 - "which X have … with no Y recorded": the distinct values, not one best group;
 - "was PX-2 refrigerated?" over a Y/N column: yes or no, not the cell's code (own small table).
 - "how many drivers": the distinct names of a column of names; "how many late deliveries" over
-  a yes/no column still counts rows.
+  a yes/no column still counts rows;
+- "what models does Brackwell make?": each model once, not once per row (own small table).
 
 Every expected answer is computed by pandas from the same rows (the `pandas:` comment beside
 each), never by tabq. The model is the untaught prior.
@@ -171,3 +172,23 @@ def test_how_many_of_a_flag_still_counts_the_rows(table, frame):
     want = int(((frame.late == "yes") & (frame.driver == "Lena Ouko")).sum())   # pandas
     result = table.ask("How many late deliveries did Lena Ouko make?")
     assert matches(result.answer, [want]), result.sql
+
+
+
+def test_a_list_of_values_that_repeat_is_given_once_each(tmp_path):
+    """"What models does Brackwell make?" over a mower catalogue with a row per model year:
+    each model once, not once per row (own small table)."""
+    rng = random.Random(31)
+    makers = {"Brackwell": ["glide 40", "glide 46", "ridge pro"], "Tamsin": ["leaf 3", "leaf 5"]}
+    rows = [{"maker": maker, "model": model, "year": year,
+             "price": round(rng.uniform(150, 900), 2)}
+            for maker, models in makers.items() for model in models
+            for year in (2022, 2023, 2024)]
+    frame = pd.DataFrame(rows)
+    path = tmp_path / "mowers.csv"
+    frame.to_csv(path, index=False)
+    table = tabq.open(path, model=tabq.Model.prior())
+    for maker in makers:
+        want = sorted(frame[frame.maker == maker].model.unique())                # pandas
+        result = table.ask(f"What models does {maker} make?")
+        assert matches(result.answer, want), result.sql
