@@ -475,12 +475,12 @@ GAP_CAP) − COLUMN_WORD_WEIGHT × the question words naming a column that the t
 is 0 or nothing − VALUE_DOUBT_WEIGHT × its doubtful readings of a value (`pipeline.VALUE_DOUBTS`:
 a number after a comparison word read as a cell value, a value matched by part of its name)
 − GUESSED_COLUMN_WEIGHT × the columns it uses that no word of the question names
-(`pipeline.guessed_columns`). The five weights: logistic regression of "the top answer is right" on those inputs, one
-intercept per family. SURE_SCORE: the lowest sureness from which the top answers on each table
-of the zeroshot, zeroshot3 and monthday families are right at least 95% of the time (on
-WikiTableQuestions and the untaught team words no threshold gets there short of flagging nearly
-all). GAP_CAP is set, not fitted: a runner-up 3 points behind holds under 5% of the top
-answer's probability.
+(`pipeline.guessed_columns`). The five weights: logistic regression of "the top answer is
+right" on those inputs, one intercept per family. SURE_SCORE: the lowest sureness from which
+the top answers on each table of the zeroshot, zeroshot3 and monthday families are right at
+least 95% of the time (on WikiTableQuestions and the untaught team words no threshold gets
+there short of flagging nearly all). GAP_CAP is set, not fitted: a runner-up 3 points behind
+holds under 5% of the top answer's probability.
 Asked at commit {", ".join(sorted({q.commit for q in questions}))} ("+": with uncommitted changes).
 Refit: python benchmarks/calibrate.py --write.
 """

@@ -572,7 +572,8 @@ def _of_names(col) -> bool:
 
 
 @root_feature
-def counted_column_unused(analysis: Analysis, used: frozenset[int], frags: frozenset[str]) -> Features:
+def counted_column_unused(analysis: Analysis, used: frozenset[int],
+                          frags: frozenset[str]) -> Features:
     """"How many drivers are there": the word counted names a text column whose values repeat
     and are names (the drivers of the parcels), so a reading that leaves it unused counts the
     rows instead. A column whose values name the rows ("how many parcels") counts them either

@@ -338,9 +338,9 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "col:synonym": 0.2, "col:abbrev": 0.2, "col:related": 0.0, "col:none": -0.9, "col:view": -0.15, "col:repeated": -1.5,
     "col:id": -0.6, "key:unique": -1.5,
     "key.rows_asked": -1.0, "values.row_name": 1.0,   # "which journal": a title, not a publisher
-    "values.after_superlative": -1.5,
+    "values.after_superlative": -1.5,   # "the temperature on the day with the most ozone"
     "head:counted_column_unused": -2.0,   # "how many drivers" counting the parcels
-    "ent:floating_counted": -2.0,         # … or the parcels of one driver no word names   # "the temperature on the day with the most ozone"
+    "ent:floating_counted": -2.0,         # … or the parcels of one driver no word names
     "key.one_row_described": -2.5,   # "the branch of the most expensive job": no branch's sum
     "values.rows_as_measure": -1.0,  # "the 3 most cited journals": titles, not citation counts
     "values.col:none": -0.3, "values.col:exact": 0.6,
