@@ -25,6 +25,7 @@ from .prior import CUE_WORDS, CUES, ROW_NOUNS, SYNONYMS, WH_COLUMNS, related
 from .rules import OPERATORS
 from .text import (MONTHS, DateMention, Words, is_word, normalise, read_question, split_words,
                    stem)
+from .wordvectors import similarity
 
 MAX_QUESTION = 2000      # characters; longer questions are cut, and the result says so
 MAX_NGRAM = 6
@@ -315,6 +316,7 @@ def _column_mentions(words, table, content, atoms, deadline=None):
             found[name] = ("none", None)
     _day_of_month(words, table, found)
     _period_words(words, table, found)
+    _near_words(words, table, found)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
         if quality in ("synonym", "related") and any(c == name for c, _ in values.get(
@@ -350,6 +352,41 @@ def _period_words(words: Words, table: Table, found: dict) -> None:
         return
     for col in dates:
         found[col.name] = ("synonym", (said, said + 1))
+
+
+NEAR = 0.55   # word-vector cosine from which a word names a header: staff → employees is 0.64,
+#               unrelated pairs stay below 0.4
+
+
+def _near_words(words: Words, table: Table, found: dict) -> None:
+    """A content word that names no column by its letters, a synonym or WordNet names the header
+    nearest it in meaning by the shipped word vectors (rainfall → precip, staff → employees),
+    when that header is named by nothing else. Only the nearest: related words are often
+    neighbours, not synonyms (students are near teachers). A cue word ("highest" is near
+    height) and a month name say something else."""
+    said = {i for _, span in found.values() if span for i in range(*span)}
+    dated = {i for d in words.dates for i in range(d.start, d.end)}
+    spelled = {h for col in table.columns for h in _header_words(col)[0]}
+    unnamed = [col for col in table.columns if not found[col.name][1]]
+    for tok in words.tokens:
+        if tok.index in said | dated or tok.stem in spelled or tok.stop or tok.text in CUE_WORDS \
+                or tok.text in MONTHS or not tok.text.isalpha():
+            continue   # a header's own word left unnamed was dropped on purpose ("how many days")
+        col, closeness = _nearest_header(tok, table)
+        if closeness >= NEAR and col in unnamed:
+            found[col.name] = ("related", (tok.index, tok.index + 1))
+
+
+def _nearest_header(tok, table: Table) -> tuple[Column | None, float]:
+    base = degree_base(tok.text)
+    stems = {tok.stem, stem(base)} if base else {tok.stem}
+    best: tuple[Column | None, float] = (None, 0.0)
+    for col in table.columns:
+        closeness = max((similarity(s, h) for s in stems for h in _header_words(col)[1]),
+                        default=0.0)
+        if closeness > best[1]:
+            best = (col, closeness)
+    return best
 
 
 def _drop_modifiers(found: dict) -> None:
@@ -432,10 +469,11 @@ def _related_mention(core: set[str], written: set[str], words: Words) -> tuple[i
     for tok in words.tokens:
         if not tok.stop and tok.stem[:1].isalnum() and core & _related(tok):
             return tok.index, tok.index + 1
-    if not any(_related(tok) for tok in words.tokens):
-        return None
-    joined = _joined_mention(written, words, related=True)
-    return _shortened_mention(core, words, related=True) or (joined[1] if joined else None)
+    if any(_related(tok) for tok in words.tokens):
+        joined = _joined_mention(written, words, related=True)
+        span = _shortened_mention(core, words, related=True) or (joined[1] if joined else None)
+        return span
+    return None
 
 
 def _related(tok) -> frozenset[str]:
