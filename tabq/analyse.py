@@ -274,7 +274,7 @@ def _wh_columns(words: Words, table: Table, qtype: str, spans: dict) -> list[Ato
     at = texts.index(qtype)
     return [Atom(slot, col.name, (at, at + 1), "wh", 0) for col in table.columns
             if col.name not in spans and _wh_kind(col, qtype, kinds)
-            for slot in set(_slots(col, table)) & {"ANYCOL", "KEYCOL"}]
+            for slot in set(_slots(col, table)) & {"ANYCOL", "KEYCOL", "DATECOL"}]
 
 
 def _wh_kind(col: Column, qtype: str, kinds: frozenset[str]) -> bool:

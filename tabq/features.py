@@ -599,13 +599,24 @@ def unexplained_cues(analysis: Analysis, used: frozenset[int], frags: frozenset[
     return {"cue:unexplained": float(missed)} if missed else {}
 
 
+def _says_operation(analysis: Analysis, span: tuple[int, int], frags: frozenset[str]) -> bool:
+    """An ordinal the form reads as its operation ("when did we first …": the first row), not
+    as the number 1 it also spells."""
+    from .prior import STRONG_CUES
+    word = analysis.words.tokens[span[0]].stem
+    return bool(STRONG_CUES.get(word, frozenset()) & frags)
+
+
 @root_feature
 def unexplained(analysis: Analysis, used: frozenset[int], frags: frozenset[str]) -> Features:
     """Numbers, dates and exact cell values the question names but the form ignores."""
     feats: Features = {}
     for atom in analysis.atoms.get("NUMBER", []):
-        if not set(range(*atom.span)) & used:
+        is_operation = atom.quality == "ordinal" and _says_operation(analysis, atom.span, frags)
+        if not set(range(*atom.span)) & used and not is_operation:
             _add(feats, "num:unused")
+        elif set(range(*atom.span)) & used and is_operation:
+            _add(feats, "num:ordinal_twice")   # "first" as the earliest and as a value 1
     for atom in (analysis.atoms.get("PERIOD", []) + analysis.atoms.get("DATE", [])
                  + analysis.atoms.get("DAY", [])):
         if not set(range(*atom.span)) & used:

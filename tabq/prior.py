@@ -206,6 +206,9 @@ for _key in list(STRONG_CUES):  # max/min words are also explained by superlativ
         STRONG_CUES[_key] |= {"max", "extreme:max", "dir:max"}
     if STRONG_CUES[_key] & {"min", "extreme:min", "dir:min"}:
         STRONG_CUES[_key] |= {"min", "extreme:min", "dir:min"}
+    # the first or last row of a date's rows is its earliest or latest date ("when did we last")
+    if STRONG_CUES[_key] & {"first", "last"}:
+        STRONG_CUES[_key] |= {"date_extreme"}
     # an aggregate's words are also explained by it measuring groups ("total" per month) or
     # by a comparison with it ("windier than the average")
     STRONG_CUES[_key] |= {f"{use}:{fn}" for fn in ("sum", "avg", "min", "max", "median")
@@ -347,6 +350,7 @@ STRUCTURE_PRIOR: dict[str, float] = {
     "measure.col:none": -0.9, "key.col:none": -0.9, "order.col:none": -1.2,
     "measure.col:exact": 0.6, "key.col:exact": 0.3,
     "filter.col:none": -0.4, "filter.col:exact": 0.3,
+    "num:ordinal_twice": -2.0,   # "when did we first …" reading "first" as a 1 too
     "num:unused": -2.5, "ent:unused": -1.0, "date:unused": -2.5,
     "teamword:unused": -2.5,         # a taught team word the reading leaves out
     "teamword:parts": -0.1,          # of two definitions that fit, the one saying less

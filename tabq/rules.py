@@ -339,6 +339,15 @@ def aggregate(a, fn: str, col: str, rows: L.Rows) -> L.Answer | None:
     return L.Aggregate(fn, col, rows)
 
 
+# "when did we last …", "the date of the most recent …": the latest date itself, which no
+# row order stands for (a table need not be sorted by date), written as its cells write it
+@specify(fragments=("date_extreme", "dir:{DIR}"), role="values", head=True, superlative=True)
+def date_extreme(a, col: str, rows: L.Rows, direction: str) -> L.Answer | None:
+    if _filters_on(rows, col):
+        return None
+    return L.Distinct(a.table.column(col).base, L.Extreme(rows, col, direction))
+
+
 @specify(fragments=("difference", "count"), accepts=simple)
 def count_difference(a, _, left: L.Rows, right: L.Rows) -> L.Answer | None:
     if left == right:
