@@ -226,6 +226,9 @@ ROW_NOUNS = frozenset(
     "people person one ones thing things total".split()
 )
 
+# Header words that say a column holds money, which every word asking about money may mean.
+_MONEY = ("price", "cost", "fee", "charg", "amount", "invoic", "bill", "payment", "fare")
+
 # Everyday stand-ins for common column words: question stem → header stems it can mean.
 SYNONYMS: dict[str, tuple[str, ...]] = {
     "peopl": ("popul",), "inhabit": ("popul",), "resid": ("popul",),   # pop of poptotal
@@ -242,10 +245,8 @@ SYNONYMS: dict[str, tuple[str, ...]] = {
     "heavi": ("weight", "mass", "kg", "lb"), "weigh": ("weight", "mass", "kg", "lb"),
     "weight": ("mass", "kg", "lb"), "light": ("weight", "mass", "kg", "lb"),
     "short": ("length", "durat", "height", "distanc", "dist"),
-    "cheap": ("price", "cost", "fee", "charg", "bill"),
-    "expens": ("price", "cost", "fee", "charg", "bill"),
-    "costli": ("price", "cost"), "pricey": ("price", "cost"), "prici": ("price", "cost"),
-    "pric": ("price", "cost"),
+    "cheap": _MONEY, "expens": _MONEY, "costli": _MONEY, "pricey": _MONEY, "prici": _MONEY,
+    "pric": _MONEY, "bill": _MONEY, "worth": _MONEY,
     "young": ("age",), "new": ("date", "year"), "recent": ("date", "year"),
     "earli": ("date", "time", "year"), "late": ("date", "time", "year"),
     "fast": ("time", "speed", "durat"), "quick": ("time", "durat"), "slow": ("time", "durat"),
