@@ -33,8 +33,23 @@ def demo_csv() -> Path:
     return ROOT / "sample_tables" / "repair_jobs.csv"
 
 
-def pytest_collection_modifyitems(items):
+def pytest_addoption(parser: pytest.Parser) -> None:
+    parser.addoption("--long", action="store_true",
+                     help="also run the tests marked long (whole sweeps, training runs); "
+                          "CI (.ci/run) does")
+
+
+def pytest_collection_modifyitems(config: pytest.Config, items: list[pytest.Item]) -> None:
     """Tests that fork run first: a fork copies only the forking thread, so a child forked after
     earlier tests left DuckDB worker threads running in this process can hang or abort in
-    DuckDB's scheduler (seen with test_crash after test_confidence)."""
+    DuckDB's scheduler (seen with test_crash after test_confidence).
+
+    Tests marked long are skipped unless --long is given, so that the README's plain `pytest`
+    stays a few minutes on a 2-core machine; the skip line names the option."""
     items.sort(key=lambda item: 0 if item.nodeid.startswith("tests/test_crash.py") else 1)
+    if config.getoption("--long"):
+        return
+    skip = pytest.mark.skip(reason="long: run with pytest --long (CI does)")
+    for item in items:
+        if item.get_closest_marker("long"):
+            item.add_marker(skip)
