@@ -26,6 +26,9 @@ from tabq.model import Model
 from tabq.teaching import evaluate, learn_from, read_examples
 
 FIXTURE = Path(__file__).parent / "fixtures" / "wtq"
+# Every question of the fixture asked (about 1.5 min on a quiet 2-core machine) and a model
+# taught from 351 more (about 3 min): run with pytest --long, as CI does.
+pytestmark = pytest.mark.long
 
 
 def questions(splits: tuple[str, ...] = ("train", "test")) -> dict[str, dict]:
