@@ -14,24 +14,33 @@ Outside sources, used as a second computation and as writers, never as the expec
 - openpyxl writes the workbook, pyarrow.feather the Feather file, the duckdb module the DuckDB
   database, Python's codecs the cp1251, cp1252 and UTF-16 text, gzip the .csv.gz.
 
-test_tabq_answers asks each question through the real command line (benchmarks/messy_files.py)
-with the untaught model and compares the top answer with the expected one.
+test_tabq_answers asks each question through the command line's entry, `tabq.cli.main`, with
+the arguments, environment and working directory benchmarks/messy_files.py gives the command
+(`ask TABLE QUESTION --json`, the untaught model), and compares the top answer with the expected
+one. It runs in this process: starting Python and importing tabq for each of the 132 questions
+took about half the file's time, and the command as a process is tests/test_cli.py's subject;
+the benchmark still runs it as one.
 """
 
 from __future__ import annotations
 
+import contextlib
 import datetime
+import io
 import re
+import subprocess
 import sys
 from pathlib import Path
 
 import pytest
 
+from tabq.cli import main
+
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "benchmarks"))
 
 import messy_files  # noqa: E402
-from messy.corpus import (CASES, CLINIC, Case, Question, answer_from_frame,  # noqa: E402
-                          same_answer)
+from messy.corpus import (CASES, CLINIC, Case, Question, Target,  # noqa: E402
+                          answer_from_frame, same_answer)
 
 PAIRS = [(case, question) for case in CASES for question in case.questions]
 
@@ -55,6 +64,29 @@ def model(tmp_path_factory) -> Path:
     return tmp_path_factory.mktemp("messy-model") / "model"
 
 
+@pytest.fixture()
+def in_process(monkeypatch: pytest.MonkeyPatch) -> None:
+    """messy_files.ask_cli, as `tabq.cli.main` in this process: TABQ_MODEL, the working
+    directory and standard input as the subprocess would have them, and its exit code and
+    output bytes in the CompletedProcess the benchmark reads. There is no process to stop at
+    the benchmark's timeout: a hang would stop the suite instead of failing one question."""
+    def ask_cli(target: Target, question: str, model: Path, cwd: Path,
+                timeout: float | None = None) -> subprocess.CompletedProcess:
+        argv = ["ask", target.arg, question, "--json"]
+        out, err = io.StringIO(), io.StringIO()
+        with monkeypatch.context() as m, contextlib.ExitStack() as stack:
+            m.setenv("TABQ_MODEL", str(model))
+            m.chdir(cwd)
+            if target.stdin:
+                raw = stack.enter_context(target.stdin.open("rb"))
+                m.setattr(sys, "stdin", io.TextIOWrapper(raw, encoding="utf-8"))
+            with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+                code = main(argv)
+        return subprocess.CompletedProcess(argv, code, out.getvalue().encode("utf-8"),
+                                           err.getvalue().encode("utf-8"))
+    monkeypatch.setattr(messy_files, "ask_cli", ask_cli)
+
+
 @pytest.mark.parametrize("case", CASES, ids=[c.name for c in CASES])
 def test_pandas_second_computation(case: Case, tmp_path: Path) -> None:
     """pandas, second computation: pandas reading the written file gives the answers computed
@@ -68,7 +100,8 @@ def test_pandas_second_computation(case: Case, tmp_path: Path) -> None:
 
 
 @pytest.mark.parametrize("pair", PAIRS, ids=[_pair_id(p) for p in PAIRS])
-def test_tabq_answers(pair: tuple[Case, Question], tmp_path: Path, model: Path) -> None:
+def test_tabq_answers(pair: tuple[Case, Question], tmp_path: Path, model: Path,
+                      in_process: None) -> None:
     case, question = pair
     _runnable(case)
     target = case.write(tmp_path)
