@@ -42,13 +42,21 @@ import messy_files  # noqa: E402
 from messy.corpus import (CASES, CLINIC, Case, Question, Target,  # noqa: E402
                           answer_from_frame, same_answer)
 
-PAIRS = [(case, question) for case in CASES for question in case.questions]
-
 
 def _pair_id(pair: tuple[Case, Question]) -> str:
     case, question = pair
     words = re.sub(r"\W+", "_", question.text).strip("_")
     return f"{case.name}:{words}"
+
+
+def _param(case: Case, question: Question) -> object:
+    """A clean control's questions are long tests (pytest --long, as CI runs them): they tell
+    a messy case's failure from a failure of the wording, and need not run on every change."""
+    marks = [pytest.mark.long] if case.name.endswith("_clean") else []
+    return pytest.param((case, question), marks=marks, id=_pair_id((case, question)))
+
+
+PAIRS = [_param(case, question) for case in CASES for question in case.questions]
 
 
 def _runnable(case: Case) -> None:
@@ -99,7 +107,7 @@ def test_pandas_second_computation(case: Case, tmp_path: Path) -> None:
         assert same_answer(got, question.expected), (question.text, got, question.expected)
 
 
-@pytest.mark.parametrize("pair", PAIRS, ids=[_pair_id(p) for p in PAIRS])
+@pytest.mark.parametrize("pair", PAIRS)
 def test_tabq_answers(pair: tuple[Case, Question], tmp_path: Path, model: Path,
                       in_process: None) -> None:
     case, question = pair
