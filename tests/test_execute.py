@@ -55,6 +55,7 @@ def same(a: Denotation, b: Denotation) -> bool:
     return a.is_table == b.is_table and matches(list(a.values), list(b.values))
 
 
+@pytest.mark.long   # 42 questions, each of its 60 best readings run twice: about 14 s
 def test_fused_answers_equal_each_query_alone(penguins_csv, demo_csv):
     tables: dict[Path, tuple] = {}
     compared = fused_groups = 0
@@ -81,6 +82,7 @@ def _ask_everything(table: pipeline.OpenTable, question: str) -> pipeline.Result
         pipeline._can_skip = original
 
 
+@pytest.mark.long   # 30 questions asked twice per model, once running every reading: 25 s
 @pytest.mark.parametrize("sharpness", [1.0, 4.0])
 def test_pruned_ask_gives_the_answer_of_executing_everything(penguins_csv, demo_csv, sharpness):
     model = Model({k: v * sharpness for k, v in Model.prior().items()})
