@@ -9,6 +9,8 @@ import signal
 import time
 from pathlib import Path
 
+import pytest
+
 from tabq.store import ModelFolder
 from tabq.teaching import Job, teach
 
@@ -45,6 +47,7 @@ def _reported(read_fd) -> list[str]:
         return pipe.read().decode().split()
 
 
+@pytest.mark.long   # twelve teachers killed after waits of up to 1.5 s each: about 13 s
 def test_teaching_killed_at_random_moments_loses_nothing_it_reported(tmp_path):
     rng = random.Random(11)
     table = _loans(tmp_path)
