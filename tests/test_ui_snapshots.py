@@ -1,5 +1,7 @@
 """SVG snapshots of the app's main screens on the demo table (pytest-textual-snapshot).
-Update with `pytest tests/test_ui_snapshots.py --snapshot-update` after a deliberate change."""
+Update with `pytest tests/test_ui_snapshots.py --long --snapshot-update` after a deliberate
+change. Long tests (about 12 s: each types its question key by key, as a person would, for the
+look of the box): CI runs them with --long; tests/test_ui.py drives the same screens."""
 
 from pathlib import Path
 
@@ -9,6 +11,7 @@ ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "sample_tables" / "repair_jobs.csv"
 APP = ROOT / "tests" / "fixtures" / "ui_app.py"
 SIZE = (100, 32)
+pytestmark = pytest.mark.long
 
 
 def _steady(app) -> None:
