@@ -9,6 +9,7 @@ import csv
 import string
 from pathlib import Path
 
+import pytest
 import sqlglot
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
@@ -51,6 +52,7 @@ def check_result(table: tabq.OpenTable, result) -> None:
         table.table.con.execute(reading.sql).fetchmany(1)   # and runs on the locked connection
 
 
+@pytest.mark.long   # 25 drawn questions, some of 2000-3000 characters: about 10 s
 @FUZZ
 @given(QUESTIONS)
 def test_any_question_gets_an_answer_or_a_tabq_error(question):
