@@ -148,7 +148,8 @@ def test_the_app_lets_the_analyst_choose_a_table_and_a_pick_there_is_kept(shop_d
             await _until(pilot, lambda: app.session is not None)
             assert app.session.open.table.name == "orders"
             app.query_one("#question").focus()
-            await pilot.press(*RETURNS, "enter")
+            app.query_one("#question").insert_text_at_cursor(RETURNS)   # pasted: see test_ui
+            await pilot.press("enter")
             await _until(pilot, lambda: app.result is not None)
             untaught = app.result
             assert untaught.answer != [right]
@@ -167,7 +168,8 @@ def test_the_app_lets_the_analyst_choose_a_table_and_a_pick_there_is_kept(shop_d
         async with reopened.run_test(size=(100, 32)) as pilot:
             await _until(pilot, lambda: reopened.session is not None)
             reopened.query_one("#question").focus()
-            await pilot.press(*RETURNS, "enter")
+            reopened.query_one("#question").insert_text_at_cursor(RETURNS)
+            await pilot.press("enter")
             await _until(pilot, lambda: reopened.result is not None)
             assert reopened.result.answer == [right]
     asyncio.run(again())
