@@ -1,18 +1,18 @@
 """The main job checked against sources outside tabq.
 
 - palmerpenguins package documentation (Horst, Hill & Gorman 2020): 344 penguins; Adelie 152,
-  Gentoo 124, Chinstrap 68; Biscoe 168, Dream 124, Torgersen 52 — asked through `tabq ask`.
+  Gentoo 124, Chinstrap 68; Biscoe 168, Dream 124, Torgersen 52 — asked through `tabq ask`
+  (its entry, `tabq.cli.main`, in this process: the command as a process is test_cli's).
 - pandas as a second computation of the same questions on the same file.
 """
 
 import json
-import subprocess
-import sys
 
 import pandas as pd
 import pytest
 
 import tabq
+from tabq.cli import main
 
 DOCUMENTED = [  # (question, answer) — counts from the palmerpenguins package documentation
     ("how many penguins are there", 344),
@@ -25,16 +25,16 @@ DOCUMENTED = [  # (question, answer) — counts from the palmerpenguins package 
 ]
 
 
-def ask_cli(table, question) -> dict:
-    out = subprocess.run([sys.executable, "-m", "tabq", "ask", str(table), question, "--json"],
-                         capture_output=True, text=True, timeout=120)
-    assert out.returncode == 0, out.stderr
-    return json.loads(out.stdout)
+def ask_cli(table, question, capsys: pytest.CaptureFixture) -> dict:
+    code = main(["ask", str(table), question, "--json"])
+    out = capsys.readouterr()
+    assert code == 0, out.err
+    return json.loads(out.out)
 
 
 @pytest.mark.parametrize("question,count", DOCUMENTED)
-def test_documented_penguin_counts_through_tabq_ask(penguins_csv, question, count):
-    result = ask_cli(penguins_csv, question)
+def test_documented_penguin_counts_through_tabq_ask(penguins_csv, question, count, capsys):
+    result = ask_cli(penguins_csv, question, capsys)
     best = result["answers"][0]
     assert best["answer"] == [count]
     assert best["sql"].startswith("SELECT") and best["paraphrase"]
