@@ -22,11 +22,21 @@ def no_forcing(monkeypatch):
     monkeypatch.delenv("TABQ_PROGRESS", raising=False)
 
 
+def _until_drawn(screen: Terminal, text: str, seconds: float = 60.0) -> None:
+    """Keep the step running until the drawing thread has put `text` on the screen. A loaded
+    machine may start that thread late: a fixed sleep would fail there, and how soon the line
+    appears is not what these tests check (the delay is)."""
+    deadline = time.monotonic() + seconds
+    while text not in screen.getvalue():
+        assert time.monotonic() < deadline, f"{text!r} was never drawn"
+        time.sleep(0.01)
+
+
 def test_a_long_step_on_a_terminal_says_what_and_how_long_then_wipes_itself():
     screen = Terminal()
     with working("reading sales.csv (2.0 GB)", screen, delay=0.02):
         assert progress.drawing()
-        time.sleep(0.3)
+        _until_drawn(screen, "tabq: reading sales.csv")
     shown = screen.getvalue()
     assert "tabq: reading sales.csv (2.0 GB)" in shown and " s" in shown
     assert shown.endswith(CLEAR) and not progress.drawing()
@@ -46,7 +56,7 @@ def test_a_file_name_cannot_act_on_the_terminal(tmp_path):
     path.write_text("a\n1\n")
     screen = Terminal()
     with working(reading_label(str(path)), screen, delay=0):
-        time.sleep(0.15)
+        _until_drawn(screen, "name.csv")
     assert "\x1b[2J" not in screen.getvalue() and "\\x1b[2Jname.csv" in screen.getvalue()
     assert reading_label(str(path)).endswith("(0.0 MB)")
 
