@@ -182,7 +182,8 @@ def test_a_question_with_no_table_open_says_so_instead_of_waiting(tmp_path):
     async def run():
         app = TabqApp(broken, tmp_path / "m")
         async with app.run_test(size=(100, 32)) as pilot:
-            await _until(pilot, lambda: app.not_open is not None)
+            # the loader done: its own message cannot come after the one asked about
+            await _until(pilot, lambda: app.not_open is not None and not app.workers)
             await pilot.press(*"how many", "enter")
             await pilot.pause(0.2)
             status = str(app.query_one("#status").render())
