@@ -24,8 +24,8 @@ ZEROSHOT = Path(__file__).resolve().parent.parent / "benchmarks" / "zeroshot"
 
 @pytest.fixture(scope="module")
 def results() -> list[pipeline.Result]:
-    """Every zero-shot question, asked untaught as the benchmark asks it: 100 questions, about
-    25 s on a quiet 2-core machine, so the tests over them are long ones."""
+    """Every zero-shot question, asked untaught as the benchmark asks it: 100 questions, 25 s in
+    one run on a 2-core machine, so the tests over them are long ones."""
     out = []
     for path in sorted(ZEROSHOT.glob("*.jsonl")):
         table = tabq.open(path.parent / "penguins.csv" if "penguins" in path.name

@@ -223,7 +223,7 @@ def test_a_wal_that_is_dev_zero(tmp_path: Path) -> None:
 
 @pytest.mark.long
 def test_a_recursive_view_without_end(tmp_path: Path) -> None:
-    """The command reads the view up to its row bound (20 million rows, about 16 s on a quiet
+    """The command reads the view up to its row bound (20 million rows, 16.5 s in one run on a
     2-core machine), so this is a long test; tests/test_inputs.py checks both bounds in
     process, made small. The deadline is past VIEW_SECONDS, the time bound tabq promises: a
     loaded machine may take longer than DEADLINE to read the rows, and that is no hang."""
