@@ -364,28 +364,28 @@ def _near_words(words: Words, table: Table, found: dict) -> None:
     when that header is named by nothing else. Only the nearest: related words are often
     neighbours, not synonyms (students are near teachers). A cue word ("highest" is near
     height) and a month name say something else."""
-    said = {i for _, span in found.values() if span for i in range(*span)}
-    dated = {i for d in words.dates for i in range(d.start, d.end)}
-    spelled = {h for col in table.columns for h in _header_words(col)[0]}
-    unnamed = [col for col in table.columns if not found[col.name][1]]
+    taken = {i for _, span in found.values() if span for i in range(*span)}
+    taken |= {i for d in words.dates for i in range(d.start, d.end)}
+    headers = {col.name: _header_words(col) for col in table.columns}
+    spelled = {h for all_stems, _, _ in headers.values() for h in all_stems}
     for tok in words.tokens:
-        if tok.index in said | dated or tok.stem in spelled or tok.stop or tok.text in CUE_WORDS \
+        if tok.index in taken or tok.stem in spelled or tok.stop or tok.text in CUE_WORDS \
                 or tok.text in MONTHS or not tok.text.isalpha():
             continue   # a header's own word left unnamed was dropped on purpose ("how many days")
-        col, closeness = _nearest_header(tok, table)
-        if closeness >= NEAR and col in unnamed:
-            found[col.name] = ("related", (tok.index, tok.index + 1))
+        name, closeness = _nearest_header(tok, {n: core for n, (_, core, _) in headers.items()})
+        if closeness >= NEAR and not found[name][1]:
+            found[name] = ("related", (tok.index, tok.index + 1))
 
 
-def _nearest_header(tok, table: Table) -> tuple[Column | None, float]:
+def _nearest_header(tok, cores: dict[str, set[str]]) -> tuple[str, float]:
+    """The column whose header words come nearest the word (or its degree's adjective)."""
     base = degree_base(tok.text)
     stems = {tok.stem, stem(base)} if base else {tok.stem}
-    best: tuple[Column | None, float] = (None, 0.0)
-    for col in table.columns:
-        closeness = max((similarity(s, h) for s in stems for h in _header_words(col)[1]),
-                        default=0.0)
+    best = ("", 0.0)
+    for name, core in cores.items():
+        closeness = max((similarity(s, h) for s in stems for h in core), default=0.0)
         if closeness > best[1]:
-            best = (col, closeness)
+            best = (name, closeness)
     return best
 
 
@@ -469,11 +469,10 @@ def _related_mention(core: set[str], written: set[str], words: Words) -> tuple[i
     for tok in words.tokens:
         if not tok.stop and tok.stem[:1].isalnum() and core & _related(tok):
             return tok.index, tok.index + 1
-    if any(_related(tok) for tok in words.tokens):
-        joined = _joined_mention(written, words, related=True)
-        span = _shortened_mention(core, words, related=True) or (joined[1] if joined else None)
-        return span
-    return None
+    if not any(_related(tok) for tok in words.tokens):
+        return None
+    joined = _joined_mention(written, words, related=True)
+    return _shortened_mention(core, words, related=True) or (joined[1] if joined else None)
 
 
 def _related(tok) -> frozenset[str]:
