@@ -607,8 +607,10 @@ class _Reader:
         if isinstance(f.rows, InGroups) and f.rows.key == f.col:
             return f"the {self.label(f.col)} values that {self.having(f.rows, 'have')}"
         if isinstance(f.rows, Extreme) and f.rows.col.split("__")[0] == f.col:
-            ranked = f.rows   # "the latest date": the column's own extreme, as its cells say it
-            scope = "" if isinstance(ranked.rows, All) else f" among rows where {self.cond(ranked.rows)}"
+            # "the latest date": a column's own extreme (or its typed view's), as its cells say it
+            ranked = f.rows
+            scope = "" if isinstance(ranked.rows, All) else \
+                f" among rows where {self.cond(ranked.rows)}"
             word = "highest" if ranked.direction == "max" else "lowest"
             return f"the {self.label(f.col)} that is the {word}{scope}"
         return f"the different values of {self.label(f.col)}{self.where(f.rows)}"

@@ -2,8 +2,8 @@
 
 tabq/data/word_vectors.npz holds one int8 vector per English stem (13,730 stems, 128 numbers
 each), built once by tools/make_vectors.py from a sentence encoder; see that script for how and
-tabq/data/MINILM-LICENSE for the source. Read lazily with numpy: a question that needs no
-meaning-match never loads it.
+tabq/data/MINILM-LICENSE for the source. Read with numpy on first use (about 40 ms, once per
+process), and only when a question has a word that nothing else explains.
 """
 
 from __future__ import annotations
@@ -33,6 +33,3 @@ def similarity(a: str, b: str) -> float:
         return 0.0
     return float(vectors[i] @ vectors[j]) / SCALE
 
-
-def known(word_stem: str) -> bool:
-    return word_stem in _table()[0]
