@@ -306,17 +306,18 @@ UNIT_WORDS = {"mm", "cm", "m", "km", "g", "kg", "lb", "lbs", "eur", "usd", "gbp"
 
 def _column_mentions(words, table, content, atoms, deadline=None):
     stems = [t.stem for t in words.tokens]
-    found = {}
+    found, headers = {}, {}
     for col in table.columns:
         _in_time(deadline)
-        found[col.name] = _match_header(_header_words(col), stems, words)
+        headers[col.name] = _header_words(col)
+        found[col.name] = _match_header(headers[col.name], stems, words)
     days = _days_as_rows(words, table)
     for name, (_, span) in list(found.items()):
         if span and set(range(*span)) <= days:   # "how many days": the rows, not day numbers
             found[name] = ("none", None)
     _day_of_month(words, table, found)
     _period_words(words, table, found)
-    _near_words(words, table, found)
+    _near_words(words, headers, found)
     values = _value_index(table)["exact"]
     for name, (quality, span) in list(found.items()):
         if quality in ("synonym", "related") and any(c == name for c, _ in values.get(
@@ -358,7 +359,7 @@ NEAR = 0.55   # word-vector cosine from which a word names a header: staff → e
 #               unrelated pairs stay below 0.4
 
 
-def _near_words(words: Words, table: Table, found: dict) -> None:
+def _near_words(words: Words, headers: dict[str, tuple], found: dict) -> None:
     """A content word that names no column by its letters, a synonym or WordNet names the header
     nearest it in meaning by the shipped word vectors (rainfall → precip, staff → employees),
     when that header is named by nothing else. Only the nearest: related words are often
@@ -366,13 +367,13 @@ def _near_words(words: Words, table: Table, found: dict) -> None:
     height) and a month name say something else."""
     taken = {i for _, span in found.values() if span for i in range(*span)}
     taken |= {i for d in words.dates for i in range(d.start, d.end)}
-    headers = {col.name: _header_words(col) for col in table.columns}
     spelled = {h for all_stems, _, _ in headers.values() for h in all_stems}
+    cores = {name: core for name, (_, core, _) in headers.items()}
     for tok in words.tokens:
         if tok.index in taken or tok.stem in spelled or tok.stop or tok.text in CUE_WORDS \
                 or tok.text in MONTHS or not tok.text.isalpha():
             continue   # a header's own word left unnamed was dropped on purpose ("how many days")
-        name, closeness = _nearest_header(tok, {n: core for n, (_, core, _) in headers.items()})
+        name, closeness = _nearest_header(tok, cores)
         if closeness >= NEAR and not found[name][1]:
             found[name] = ("related", (tok.index, tok.index + 1))
 
